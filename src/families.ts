@@ -1,0 +1,128 @@
+// Adjustment within families: each family (a combination of values of the
+// --family columns) is a separate set of hypotheses with its own m, adjusted
+// on its own. Rows are grouped with a counting sort on the family id (one
+// pass to count, one to place), so the work is linear in the rows plus the
+// procedures' own sorting, and nothing but typed arrays is allocated per row.
+
+import type { Method } from './methods.js';
+
+/** Family membership: ids[row] is in [0, count). */
+export interface FamilyGrouping {
+  readonly ids: Int32Array;
+  readonly count: number;
+}
+
+/** What one method did in one family. */
+export interface FamilyOutcome {
+  /** p-values present (not missing). */
+  readonly tested: number;
+  readonly missing: number;
+  /** Tests the adjustment counted: `tested`, or the --tests value. */
+  readonly m: number;
+  /** Rows whose adjusted p-value is <= alpha. */
+  readonly rejected: number;
+  /** The largest raw p-value among the rejected rows; null when none. */
+  readonly threshold: number | null;
+}
+
+export interface WithinFamilies {
+  /** One array per method, in the order given: adjusted p-values by row, NaN where p is missing. */
+  readonly adjusted: Float64Array[];
+  /** outcomes[family][method]. */
+  readonly outcomes: FamilyOutcome[][];
+}
+
+export interface WithinFamiliesOptions {
+  readonly alpha: number;
+  /** The real number of tests in every family, when the table holds only some. */
+  readonly tests?: number | undefined;
+}
+
+/** Thrown when --tests is smaller than the p-values a family holds. */
+export class TooFewTestsError extends RangeError {
+  constructor(
+    readonly family: number,
+    readonly tested: number,
+    readonly tests: number,
+  ) {
+    super(`family ${family} holds ${tested} p-values, more than the ${tests} tests given`);
+  }
+}
+
+/** A family grouping with every row in one family. */
+export function singleFamily(rows: number): FamilyGrouping {
+  return { ids: new Int32Array(rows), count: 1 };
+}
+
+/**
+ * Adjusts p within each family with each method. Missing p-values (NaN) are
+ * left out of m and get NaN. Neither input is modified.
+ */
+export function adjustWithinFamilies(
+  p: Float64Array,
+  families: FamilyGrouping,
+  methods: readonly Method[],
+  options: WithinFamiliesOptions,
+): WithinFamilies {
+  const { ids, count } = families;
+  if (ids.length !== p.length) throw new RangeError('family ids and p-values differ in length');
+
+  const present = new Int32Array(count);
+  const missing = new Int32Array(count);
+  for (let row = 0; row < p.length; row++) {
+    if (Number.isNaN(p[row])) missing[ids[row]]++;
+    else present[ids[row]]++;
+  }
+  const start = new Int32Array(count + 1);
+  for (let f = 0; f < count; f++) {
+    start[f + 1] = start[f] + present[f];
+    if (options.tests !== undefined && options.tests < present[f]) {
+      throw new TooFewTestsError(f, present[f], options.tests);
+    }
+  }
+
+  // Gather each family's p-values into one contiguous segment.
+  const gathered = new Float64Array(start[count]);
+  const rowOf = new Int32Array(gathered.length);
+  const fill = start.slice(0, count);
+  for (let row = 0; row < p.length; row++) {
+    const value = p[row];
+    if (Number.isNaN(value)) continue;
+    const at = fill[ids[row]]++;
+    gathered[at] = value;
+    rowOf[at] = row;
+  }
+
+  const adjusted = methods.map(() => new Float64Array(p.length).fill(NaN));
+  const outcomes: FamilyOutcome[][] = [];
+  for (let f = 0; f < count; f++) {
+    const from = start[f];
+    const to = start[f + 1];
+    const segment = gathered.subarray(from, to);
+    const m = options.tests ?? segment.length;
+    outcomes.push(
+      methods.map((method, k) => {
+        const values = method.adjust(segment, m);
+        const target = adjusted[k];
+        let rejected = 0;
+        let threshold = -1;
+        for (let i = 0; i < values.length; i++) {
+          const value = values[i];
+          target[rowOf[from + i]] = value;
+          if (value <= options.alpha) {
+            rejected++;
+            threshold = Math.max(threshold, segment[i]);
+          }
+        }
+        return {
+          tested: segment.length,
+          missing: missing[f],
+          m,
+          rejected,
+          threshold: rejected > 0 ? threshold : null,
+        };
+      }),
+    );
+  }
+  return { adjusted, outcomes };
+}

@@ -1,0 +1,52 @@
+// The delimiter of a table: given by the user, or sniffed from the first line.
+
+const TAB = 0x09;
+const QUOTE = 0x22;
+const LF = 0x0a;
+const CR = 0x0d;
+
+/** Delimiters famwise sniffs and accepts, by the names users may type. */
+export const DELIMITERS: Readonly<Record<string, number>> = {
+  ',': 0x2c,
+  comma: 0x2c,
+  tab: TAB,
+  '\\t': TAB,
+  '\t': TAB,
+  ';': 0x3b,
+  semicolon: 0x3b,
+  '|': 0x7c,
+  pipe: 0x7c,
+};
+
+const CANDIDATES = [TAB, 0x2c, 0x3b, 0x7c];
+
+/**
+ * The delimiter that occurs most often, outside quotes, on the first line of
+ * `head` (ties go to tab, then comma, semicolon, pipe). A one-column table has
+ * none: then a .tsv or .tab file name means tab, anything else comma.
+ */
+export function sniffDelimiter(head: Buffer, extension: string): number {
+  const counts = new Map<number, number>(CANDIDATES.map((c) => [c, 0]));
+  let inQuotes = false;
+  for (let i = 0; i < head.length; i++) {
+    const byte = head[i];
+    if (byte === QUOTE) inQuotes = !inQuotes;
+    else if (!inQuotes && (byte === LF || byte === CR)) break;
+    else if (!inQuotes && counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
+  }
+  let best = -1;
+  let bestCount = 0;
+  for (const candidate of CANDIDATES) {
+    const count = counts.get(candidate) as number;
+    if (count > bestCount) {
+      best = candidate;
+      bestCount = count;
+    }
+  }
+  if (best >= 0) return best;
+  return extension === 'tsv' || extension === 'tab' ? TAB : 0x2c;
+}
+
+export function delimiterName(delimiter: number): string {
+  return delimiter === TAB ? 'tab' : JSON.stringify(String.fromCharCode(delimiter));
+}

@@ -1,0 +1,41 @@
+// Reading a p-value from the text of a table cell. One list of missing-value
+// marks and one number grammar, shared by every command.
+
+/** Cell texts that mean "no p-value here" (after trimming spaces). */
+export const MISSING_MARKS: readonly string[] = ['', 'NA', 'na', 'N/A', 'n/a', 'NaN', 'nan', 'NULL', 'null', 'None', '#N/A'];
+
+const missing = new Set(MISSING_MARKS);
+// Plain decimal or scientific notation, no sign, no thousands separators:
+// 0.05  .05  5e-3  5E-03  1  0  1.0  3.2e-300
+const DECIMAL = /^(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+export type PValueText = number | 'missing' | 'invalid';
+
+/**
+ * The p-value in a cell: a number in [0, 1], 'missing' for a missing-value
+ * mark, or 'invalid'. Surrounding spaces are ignored. With decimalComma
+ * (tables separated by ';'), "0,05" reads as 0.05.
+ */
+export function readPValue(text: string, decimalComma = false): PValueText {
+  let trimmed = text.trim();
+  if (missing.has(trimmed)) return 'missing';
+  if (decimalComma && trimmed.includes(',')) trimmed = trimmed.replace(',', '.');
+  if (!DECIMAL.test(trimmed)) return 'invalid';
+  const value = Number(trimmed);
+  return value <= 1 ? value : 'invalid';
+}
+
+/** Why a cell's text is not a p-value, for the error message. */
+export function whyNotPValue(text: string): string {
+  const trimmed = text.trim();
+  const value = Number(trimmed.replace(',', '.'));
+  if (/^<\s*\d/.test(trimmed)) {
+    return 'it is a bound, not a value; give the p-value itself, or an upper bound as the value if that is what you mean';
+  }
+  if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
+  if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';
+  if (Number.isFinite(value) && trimmed !== '' && value < 0) return 'p-values cannot be negative';
+  if (Number.isFinite(value) && trimmed !== '' && value > 1) return 'p-values cannot exceed 1 (is this column a statistic, or -log10 p?)';
+  if (/^\d*,\d+$/.test(trimmed)) return 'a decimal comma is read only in tables separated by ";" (use --delimiter ";")';
+  return `expected a number from 0 to 1 (like 0.05 or 5e-3) or a missing-value mark (${MISSING_MARKS.filter(Boolean).join(', ')}, or empty)`;
+}

@@ -1,0 +1,50 @@
+// Drives the record scanner over a source's chunks. Chunks are gathered into
+// blocks of at least BLOCK_SIZE before scanning, and the unfinished record at
+// the end of a block is carried into the next one.
+
+import { RecordScanner, type RecordView } from './csv-scan.js';
+import type { InputSource } from './source.js';
+
+const BLOCK_SIZE = 1 << 20;
+
+export interface ScanHandlers {
+  record(view: RecordView): void;
+  /** Called after each block; lets a writer flush with back-pressure. */
+  afterBlock?(): Promise<void>;
+  /** The bytes after the last record (trailing blank lines), once at the end. */
+  trailing?(buf: Buffer, from: number): void;
+}
+
+/** The first bytes of a source, at least `want` of them unless it is shorter. */
+export async function peek(source: InputSource, want: number): Promise<Buffer> {
+  const parts: Buffer[] = [];
+  let size = 0;
+  for await (const chunk of source.chunks()) {
+    parts.push(chunk);
+    size += chunk.length;
+    if (size >= want) break;
+  }
+  return Buffer.concat(parts);
+}
+
+export async function scanInput(source: InputSource, delimiter: number, handlers: ScanHandlers): Promise<void> {
+  const scanner = new RecordScanner(delimiter, source.name);
+  let carry: Buffer = Buffer.alloc(0);
+  let pending: Buffer[] = [];
+  let pendingSize = 0;
+  const scanBlock = async (atEnd: boolean): Promise<void> => {
+    const block = carry.length === 0 && pending.length === 1 ? (pending[0]) : Buffer.concat([carry, ...pending]);
+    pending = [];
+    pendingSize = 0;
+    const consumed = scanner.scan(block, 0, atEnd, handlers.record);
+    carry = block.subarray(consumed);
+    if (handlers.afterBlock) await handlers.afterBlock();
+  };
+  for await (const chunk of source.chunks()) {
+    pending.push(chunk);
+    pendingSize += chunk.length;
+    if (pendingSize >= BLOCK_SIZE) await scanBlock(false);
+  }
+  await scanBlock(true);
+  if (handlers.trailing && carry.length > 0) handlers.trailing(carry, 0);
+}
