@@ -30,7 +30,7 @@ export function whyNotPValue(text: string): string {
   const trimmed = text.trim();
   const value = Number(trimmed.replace(',', '.'));
   if (/^<\s*\d/.test(trimmed)) {
-    return 'it is a bound, not a value; give the p-value itself, or an upper bound as the value if that is what you mean';
+    return 'it is a bound ("less than"), not a value; if the bound itself will do, write it without the "<"';
   }
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
   if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';

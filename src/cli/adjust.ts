@@ -1,0 +1,194 @@
+// famwise adjust: adjust the p-values of a table within families and write
+// the table back with the adjusted values and the decisions.
+
+const USAGE = `Reads a table of raw p-values (CSV or TSV, from FILE or standard input),
+adjusts them within each family with the chosen procedures, and writes the
+same table back with two new columns per method: adj_<method> (the adjusted
+p-value) and rej_<method> (true where it is at most alpha). A summary of the
+rejections goes to standard error.
+
+Missing p-values (${MISSING_MARKS.map((mark) => mark || 'empty').join(', ')}) are
+left out of the number of tests and get empty cells.
+
+Examples:
+  famwise adjust results.csv --methods holm,bh -o adjusted.csv
+  zcat scan.tsv.gz | famwise adjust --family chrom --methods bh > adjusted.tsv
+  famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
+  famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
+
+import { Command, Option } from 'commander';
+import { z } from 'zod';
+import { UsageError, quoteText } from '../errors.js';
+import { EXIT_HELP } from '../exit-codes.js';
+import { TooFewTestsError, adjustWithinFamilies } from '../families.js';
+import { ByteSink } from '../io/byte-sink.js';
+import { createAtomicFile, type AtomicFile } from '../io/atomic-file.js';
+import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
+import { readTable, type Table } from '../io/read-table.js';
+import { bufferSource, type InputSource } from '../io/source.js';
+import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
+import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
+import { summarize, summaryText } from '../summary.js';
+import { CAUTION } from './cautions.js';
+import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions } from './options.js';
+
+const TAB = 0x09;
+const COMMA = 0x2c;
+
+const adjustOptionsSchema = inputOptionsSchema.extend({
+  methods: z
+    .array(z.string())
+    .default(['bh'])
+    .superRefine((tokens, context) => {
+      const unknown = tokens.filter((token) => !findMethod(token));
+      if (unknown.length > 0) {
+        context.addIssue({ code: 'custom', message: `unknown method ${quoteText(unknown[0] as string)}; the methods are ${METHOD_TOKENS.join(', ')}` });
+      }
+      const repeated = tokens.find((token, i) => tokens.indexOf(token) !== i);
+      if (repeated) context.addIssue({ code: 'custom', message: `${quoteText(repeated)} is given twice` });
+    })
+    .transform((tokens) => tokens.map((token) => findMethod(token) as Method)),
+  alpha: z
+    .string()
+    .default('0.05')
+    .transform(Number)
+    .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05'),
+  tests: z
+    .string()
+    .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
+    .transform(Number)
+    .refine((tests) => tests >= 1, 'needs at least 1 test')
+    .optional(),
+  values: z
+    .array(z.string())
+    .superRefine((items, context) => {
+      const bad = items.findIndex((item) => readPValue(item) === 'invalid');
+      if (bad >= 0) context.addIssue({ code: 'custom', message: `item ${bad + 1}, ${quoteText(items[bad] as string)}, is not a p-value (a number from 0 to 1, or NA)` });
+      if (items.length === 0) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
+    })
+    .optional(),
+  output: z.string().min(1).optional(),
+  summary: z.string().min(1).optional(),
+  format: z.enum(['csv', 'tsv', 'table'], { message: 'accepts csv, tsv or table' }).optional(),
+  replace: z.boolean().default(false),
+  quiet: z.boolean().default(false),
+});
+
+type AdjustOptions = z.output<typeof adjustOptionsSchema>;
+
+export function adjustCommand(): Command {
+  const command = new Command('adjust')
+    .summary('adjust the p-values of a table within families, and report the rejections')
+    .description(USAGE)
+    .argument('[file]', 'the table to read; - or nothing for standard input');
+  addInputOptions(command)
+    .option('--methods <list>', `procedures to apply, comma-separated: ${METHOD_TOKENS.join(', ')} (default: bh)`, collectList)
+    .option('--alpha <level>', 'the error rate to control, between 0 and 1 (default: 0.05)')
+    .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
+    .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
+    .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output')
+    .option('--summary <file>', 'also write the rejection summary to this file as JSON')
+    .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
+    .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
+    .option('-q, --quiet', 'print no summary or notes on standard error')
+    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
+    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
+      await runAdjust(file, parseOptions(adjustOptionsSchema, raw));
+    });
+  return command;
+}
+
+function valuesSource(options: AdjustOptions, file: string | undefined): InputSource | undefined {
+  if (options.values === undefined) return undefined;
+  if (file !== undefined) throw new UsageError('--values: give either p-values or a table, not both');
+  if (options.family.length > 0 || options.pColumn !== undefined) {
+    throw new UsageError('--values: --family and --p-column need a table; --values gives a single column of p-values');
+  }
+  return bufferSource(Buffer.from(`p\n${options.values.join('\n')}\n`), '--values');
+}
+
+function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions): OutputColumn[] {
+  const names = table.shape.names ?? [];
+  const existing = (name: string): number | undefined => {
+    const index = names.indexOf(name);
+    if (index < 0) return undefined;
+    if (!options.replace) {
+      throw new UsageError(`the table already has a column ${quoteText(name)}; use --replace to overwrite it`);
+    }
+    return index;
+  };
+  const { alpha } = options;
+  return methods.flatMap((method, k) => {
+    const values = adjusted[k] as Float64Array;
+    const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
+    return [
+      {
+        name: adjustedName,
+        replaces: existing(adjustedName),
+        cell: (row: number) => (Number.isNaN(values[row]) ? '' : String(values[row])),
+      },
+      {
+        name: rejectedName,
+        replaces: existing(rejectedName),
+        cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false'),
+      },
+    ];
+  });
+}
+
+function chooseFormat(options: AdjustOptions, table: Table): OutputFormat {
+  const format = options.format ?? (options.output === undefined && process.stdout.isTTY ? 'table' : undefined);
+  if (format === 'table') return 'table';
+  if (format === 'tsv') return { delimiter: TAB };
+  if (format === 'csv') return { delimiter: COMMA };
+  return { delimiter: table.shape.delimiter };
+}
+
+async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
+  if (options.output !== undefined) checkWritable(options.output, '--output');
+  if (options.summary !== undefined) checkWritable(options.summary, '--summary');
+  const fromValues = valuesSource(options, file);
+  const source = fromValues ?? (await openInput(file));
+  const table = await readTable(source, {
+    delimiter: fromValues ? COMMA : options.delimiter,
+    header: fromValues ? true : options.header,
+    pColumn: fromValues ? 'p' : options.pColumn,
+    familyColumns: options.family,
+  });
+  const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
+  const methods = options.methods;
+
+  let result;
+  try {
+    result = adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests });
+  } catch (error) {
+    if (!(error instanceof TooFewTestsError)) throw error;
+    const values = table.familyValues[error.family] ?? [];
+    const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyColumnNames.map((name, k) => `${name}=${values[k]}`).join(', ')}`;
+    throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
+  }
+  const columns = outputColumns(table, methods, result.adjusted, options);
+  const summary = summarize(result, methods, familyColumnNames, table.familyValues, options.alpha);
+
+  const files: AtomicFile[] = [];
+  try {
+    const outputFile = options.output === undefined ? undefined : createAtomicFile(options.output);
+    if (outputFile) files.push(outputFile);
+    const sink = new ByteSink(outputFile ? outputFile.stream : process.stdout);
+    await writeTable(source, table.shape, columns, chooseFormat(options, table), sink, table.p.length);
+    if (options.summary !== undefined) {
+      const summaryFile = createAtomicFile(options.summary);
+      files.push(summaryFile);
+      summaryFile.stream.write(`${JSON.stringify(summary, null, 2)}\n`);
+    }
+    for (const done of files) await done.commit();
+  } catch (error) {
+    for (const unfinished of files) unfinished.abort();
+    throw error;
+  }
+
+  if (!options.quiet) {
+    for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice}\n`);
+    process.stderr.write(summaryText(summary));
+  }
+}

@@ -1,0 +1,62 @@
+#!/usr/bin/env node
+// The famwise command line: subcommands, exit statuses and error reporting.
+// Everything here parses, validates, reads and writes; the arithmetic lives
+// in the procedure modules.
+
+import { readFileSync } from 'node:fs';
+import { Command, CommanderError } from 'commander';
+import { FamwiseError } from '../errors.js';
+import { EXIT, EXIT_HELP } from '../exit-codes.js';
+import { removeUnfinishedFiles } from '../io/atomic-file.js';
+import { adjustCommand } from './adjust.js';
+import { CAUTION } from './cautions.js';
+
+const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
+
+function program(): Command {
+  const root = new Command('famwise')
+    .description('Multiple-testing adjustment of p-value tables: FWER and FDR procedures within families.')
+    .version(version, '--version', 'print the version')
+    .helpOption('-h, --help', 'show help')
+    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
+    .showHelpAfterError('(see famwise --help)');
+  root.addCommand(adjustCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise adjust --help)'));
+  // Commander's own usage errors (unknown option, missing value) read like ours and exit with the usage status.
+  for (const command of [root, ...root.commands]) {
+    command.exitOverride().configureOutput({
+      outputError: (text, write) => write(`famwise: ${text.replace(/^error: /, '')}`),
+    });
+  }
+  return root;
+}
+
+function fail(error: unknown): never {
+  removeUnfinishedFiles();
+  if (error instanceof CommanderError) {
+    const helpOrVersion = ['commander.helpDisplayed', 'commander.help', 'commander.version'].includes(error.code);
+    process.exit(helpOrVersion ? EXIT.ok : EXIT.usageError);
+  }
+  if (error instanceof FamwiseError) {
+    process.stderr.write(`famwise: ${error.message}\n`);
+    process.exit(error.exitCode);
+  }
+  const code = (error as NodeJS.ErrnoException | undefined)?.code;
+  if (code === 'EPIPE') process.exit(EXIT.ok);
+  const message = error instanceof Error ? error.message : String(error);
+  process.stderr.write(`famwise: ${code ? `${message}` : `unexpected error (please report it): ${message}`}\n`);
+  process.exit(EXIT.dataError);
+}
+
+// A reader that stops early (famwise adjust big.csv | head) is not an error.
+process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+  if (error.code === 'EPIPE') process.exit(EXIT.ok);
+  fail(error);
+});
+process.on('SIGINT', () => {
+  removeUnfinishedFiles();
+  process.exit(130);
+});
+
+program()
+  .parseAsync(process.argv)
+  .catch(fail);

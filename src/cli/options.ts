@@ -1,0 +1,88 @@
+// Option handling shared by the subcommands: the input options every command
+// reads tables with, and the translation of zod's findings into one-line
+// usage errors that name the option.
+
+import { accessSync, constants, existsSync, statSync } from 'node:fs';
+import { dirname } from 'node:path';
+import type { Command } from 'commander';
+import { z } from 'zod';
+import { UsageError } from '../errors.js';
+import { DELIMITERS } from '../io/dialect.js';
+import { type InputSource, fileSource, streamSource } from '../io/source.js';
+
+/** Collects a repeatable, comma-separated option into one list. */
+export function collectList(value: string, previous: string[] | undefined): string[] {
+  return [...(previous ?? []), ...value.split(',').map((item) => item.trim())];
+}
+
+/** The input options: the same flags, with the same meaning, on every command that reads a table. */
+export function addInputOptions(command: Command): Command {
+  return command
+    .option('--p-column <name|index>', 'the column of raw p-values (default: the one column named like p, pvalue, p_value, pval)')
+    .option('--family <columns>', 'adjust separately within each combination of these columns\' values (comma-separated, repeatable)', collectList)
+    .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first line)')
+    .option('--header', 'the first line names the columns (default: yes, unless it holds only numbers)')
+    .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...');
+}
+
+export const inputOptionsSchema = z.object({
+  pColumn: z.string().min(1, 'needs a column name or a 1-based position').optional(),
+  family: z.array(z.string().min(1, 'column names cannot be empty')).default([]),
+  delimiter: z
+    .string()
+    .refine((value) => value in DELIMITERS, 'accepts comma, tab, semicolon or pipe (or the character itself)')
+    .transform((value) => DELIMITERS[value] as number)
+    .optional(),
+  header: z.boolean().optional(),
+});
+
+const FLAGS: Record<string, string> = {
+  pColumn: '--p-column',
+  family: '--family',
+  delimiter: '--delimiter',
+  header: '--header',
+  methods: '--methods',
+  alpha: '--alpha',
+  tests: '--tests',
+  values: '--values',
+  output: '--output',
+  summary: '--summary',
+  format: '--format',
+};
+
+/** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */
+export function parseOptions<T extends z.ZodType>(schema: T, raw: unknown): z.output<T> {
+  const parsed = schema.safeParse(raw);
+  if (parsed.success) return parsed.data;
+  const issue = parsed.error.issues[0] as z.core.$ZodIssue;
+  const key = String(issue.path[0] ?? '');
+  const flag = FLAGS[key] ?? key;
+  const given = (raw as Record<string, unknown>)[key];
+  const shown = typeof given === 'string' ? ` ${JSON.stringify(given)}` : '';
+  throw new UsageError(`${flag}${shown}: ${issue.message}`);
+}
+
+/** The table's source: a file, or standard input for '-' or no file. */
+export async function openInput(file: string | undefined): Promise<InputSource> {
+  if (file === undefined || file === '-') {
+    if (process.stdin.isTTY) {
+      process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
+    }
+    return streamSource(process.stdin);
+  }
+  if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
+  if (statSync(file).isDirectory()) throw new UsageError(`${file}: is a folder, not a table`);
+  return fileSource(file);
+}
+
+/** Fails early, before any reading, when an output file could not be written. */
+export function checkWritable(path: string, flag: string): void {
+  const folder = dirname(path);
+  if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new UsageError(`${flag} ${path}: the folder ${folder} does not exist`);
+  if (existsSync(path) && statSync(path).isDirectory()) throw new UsageError(`${flag} ${path}: is a folder`);
+  try {
+    accessSync(folder, constants.W_OK);
+  } catch {
+    throw new UsageError(`${flag} ${path}: the folder ${folder} is not writable`);
+  }
+}

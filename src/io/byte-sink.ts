@@ -1,0 +1,41 @@
+// Buffered output with back-pressure: pieces are gathered and written in
+// large blocks, waiting for 'drain' when the stream is full, so that memory
+// stays bounded however large the table.
+
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+
+const FLUSH_SIZE = 1 << 20;
+
+export class ByteSink {
+  private pieces: Buffer[] = [];
+  private text = '';
+  private size = 0;
+
+  constructor(private readonly stream: Writable) {}
+
+  push(piece: Buffer | string): void {
+    if (typeof piece === 'string') {
+      this.text += piece;
+      this.size += piece.length;
+      return;
+    }
+    if (this.text) {
+      this.pieces.push(Buffer.from(this.text));
+      this.text = '';
+    }
+    this.pieces.push(piece);
+    this.size += piece.length;
+  }
+
+  /** Writes what is gathered once it is large (or always, with force). */
+  async flush(force = false): Promise<void> {
+    if (this.size === 0 || (!force && this.size < FLUSH_SIZE)) return;
+    if (this.text) this.pieces.push(Buffer.from(this.text));
+    const block = Buffer.concat(this.pieces);
+    this.pieces = [];
+    this.text = '';
+    this.size = 0;
+    if (!this.stream.write(block)) await once(this.stream, 'drain');
+  }
+}

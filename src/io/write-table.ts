@@ -1,0 +1,114 @@
+// The second pass: read the source again and write every record back with
+// the new columns. With the input's own delimiter each original field is
+// copied byte for byte (quoting, number text, unicode, line endings, blank
+// lines, a byte-order mark); only the new cells are written fresh.
+
+import { DataError } from '../errors.js';
+import { alignedTable } from '../text-table.js';
+import type { ByteSink } from './byte-sink.js';
+import { type RecordView, fieldText } from './csv-scan.js';
+import type { TableShape } from './read-table.js';
+import { scanInput } from './scan-input.js';
+import type { InputSource } from './source.js';
+
+/** An aligned text table for reading, or delimited text with this delimiter byte. */
+export type OutputFormat = 'table' | { readonly delimiter: number };
+
+/** A column the writer adds, or writes over an existing one with the same name. */
+export interface OutputColumn {
+  readonly name: string;
+  /** The cell for data row `row` (0-based, header excluded). */
+  cell(row: number): string;
+  /** Index of the existing column it replaces; undefined to append it. */
+  readonly replaces?: number | undefined;
+}
+
+function needsQuotes(text: string, delimiter: string): boolean {
+  return text.includes(delimiter) || text.includes('"') || text.includes('\n') || text.includes('\r');
+}
+
+function quoted(text: string, delimiter: string): string {
+  return needsQuotes(text, delimiter) ? `"${text.replaceAll('"', '""')}"` : text;
+}
+
+/** Column headings for the table format: the header's names, or positions 1..n. */
+function headings(shape: TableShape): string[] {
+  return shape.names ? [...shape.names] : Array.from({ length: shape.columnCount }, (_, k) => String(k + 1));
+}
+
+export async function writeTable(
+  source: InputSource,
+  shape: TableShape,
+  columns: readonly OutputColumn[],
+  format: OutputFormat,
+  sink: ByteSink,
+  expectedRows: number,
+): Promise<void> {
+  const replacing = new Map<number, OutputColumn>();
+  for (const column of columns) if (column.replaces !== undefined) replacing.set(column.replaces, column);
+  const appended = columns.filter((column) => column.replaces === undefined);
+  let row = shape.names ? -1 : 0;
+
+  const cellsOf = (view: RecordView, record: number): string[] => {
+    const cells: string[] = [];
+    for (let k = 0; k < view.fieldCount; k++) {
+      const replacement = replacing.get(k);
+      cells.push(record < 0 || !replacement ? fieldText(view, k) : replacement.cell(record));
+    }
+    for (const column of appended) cells.push(record < 0 ? column.name : column.cell(record));
+    return cells;
+  };
+
+  if (format === 'table') {
+    const rows: string[][] = [];
+    await scanInput(source, shape.delimiter, {
+      record(view) {
+        if (row >= 0) rows.push(cellsOf(view, row));
+        row++;
+      },
+    });
+    checkRowCount(source, row, expectedRows);
+    const header = [...headings(shape), ...appended.map((column) => column.name)];
+    sink.push(alignedTable(header, rows));
+    await sink.flush(true);
+    return;
+  }
+
+  const delimiter = String.fromCharCode(format.delimiter);
+  const copyFields = format.delimiter === shape.delimiter;
+  await scanInput(source, shape.delimiter, {
+    record(view) {
+      const { buf } = view;
+      if (copyFields && replacing.size === 0) {
+        sink.push(buf.subarray(view.gapStart, view.contentEnd));
+      } else {
+        sink.push(buf.subarray(view.gapStart, view.contentStart));
+        for (let k = 0; k < view.fieldCount; k++) {
+          if (k > 0) sink.push(delimiter);
+          const replacement = row >= 0 ? replacing.get(k) : undefined;
+          if (replacement) sink.push(replacement.cell(row));
+          else if (copyFields) sink.push(buf.subarray(view.starts[k], view.ends[k]));
+          else sink.push(quoted(fieldText(view, k), delimiter));
+        }
+      }
+      for (const column of appended) {
+        sink.push(delimiter);
+        sink.push(row < 0 ? quoted(column.name, delimiter) : column.cell(row));
+      }
+      sink.push(buf.subarray(view.contentEnd, view.next));
+      row++;
+    },
+    afterBlock: () => sink.flush(),
+    trailing(buf, from) {
+      sink.push(buf.subarray(from));
+    },
+  });
+  checkRowCount(source, row, expectedRows);
+  await sink.flush(true);
+}
+
+function checkRowCount(source: InputSource, rows: number, expected: number): void {
+  if (rows !== expected) {
+    throw new DataError(`${source.name}: changed while famwise was reading it (${expected} rows at first, ${rows} now); the output is incomplete`);
+  }
+}
