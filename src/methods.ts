@@ -2,16 +2,17 @@
 // modules and every list shown to users come from here, so adding a
 // procedure is one new module in procedures/ plus one entry below.
 
-import { adjustBenjaminiHochberg } from './procedures/benjamini-hochberg.js';
-import { adjustBenjaminiYekutieli } from './procedures/benjamini-yekutieli.js';
-import { adjustBonferroni } from './procedures/bonferroni.js';
-import { adjustHochberg } from './procedures/hochberg.js';
-import { adjustHolm } from './procedures/holm.js';
+import { benjaminiHochbergSorted } from './procedures/benjamini-hochberg.js';
+import { benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
+import { bonferroniSorted } from './procedures/bonferroni.js';
+import { hochbergSorted } from './procedures/hochberg.js';
+import { holmSorted } from './procedures/holm.js';
+import { type SortedKernel, adjustInInputOrder } from './procedures/sorting.js';
 
 export type ErrorRate = 'FWER' | 'FDR';
 export type StepKind = 'single-step' | 'step-down' | 'step-up';
 
-export interface Method {
+interface MethodEntry {
   /** What users type in --methods; also names the output columns. */
   readonly token: string;
   readonly name: string;
@@ -20,11 +21,16 @@ export interface Method {
   readonly dependence: string;
   readonly steps: StepKind;
   readonly source: string;
+  /** Adjusted values of ascending p-values; m >= sorted.length counts absent tests as p = 1. */
+  readonly adjustSorted: SortedKernel;
+}
+
+export interface Method extends MethodEntry {
   /** Adjusted p-values in input order; m >= p.length counts absent tests as p = 1. */
   readonly adjust: (p: Float64Array, m: number) => Float64Array;
 }
 
-export const METHODS: readonly Method[] = [
+const ENTRIES: readonly MethodEntry[] = [
   {
     token: 'bonferroni',
     name: 'Bonferroni',
@@ -32,7 +38,7 @@ export const METHODS: readonly Method[] = [
     dependence: 'any',
     steps: 'single-step',
     source: 'Dunn (1961), J. Am. Stat. Assoc. 56:52-64',
-    adjust: adjustBonferroni,
+    adjustSorted: bonferroniSorted,
   },
   {
     token: 'holm',
@@ -41,7 +47,7 @@ export const METHODS: readonly Method[] = [
     dependence: 'any',
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70',
-    adjust: adjustHolm,
+    adjustSorted: holmSorted,
   },
   {
     token: 'hochberg',
@@ -50,7 +56,7 @@ export const METHODS: readonly Method[] = [
     dependence: 'independent or positively dependent',
     steps: 'step-up',
     source: 'Hochberg (1988), Biometrika 75:800-802',
-    adjust: adjustHochberg,
+    adjustSorted: hochbergSorted,
   },
   {
     token: 'bh',
@@ -59,7 +65,7 @@ export const METHODS: readonly Method[] = [
     dependence: 'independent or positively dependent',
     steps: 'step-up',
     source: 'Benjamini & Hochberg (1995), J. R. Stat. Soc. B 57:289-300',
-    adjust: adjustBenjaminiHochberg,
+    adjustSorted: benjaminiHochbergSorted,
   },
   {
     token: 'by',
@@ -68,9 +74,14 @@ export const METHODS: readonly Method[] = [
     dependence: 'any',
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
-    adjust: adjustBenjaminiYekutieli,
+    adjustSorted: benjaminiYekutieliSorted,
   },
 ];
+
+export const METHODS: readonly Method[] = ENTRIES.map((entry) => ({
+  ...entry,
+  adjust: (p: Float64Array, m: number) => adjustInInputOrder(p, m, entry.adjustSorted),
+}));
 
 export const METHOD_TOKENS: readonly string[] = METHODS.map((method) => method.token);
 

@@ -90,7 +90,6 @@ export class RecordScanner {
     if (this.atInputStart) {
       if (length - pos < 3 && !atEnd) return from;
       if (buf[pos] === 0xef && buf[pos + 1] === 0xbb && buf[pos + 2] === 0xbf) pos += 3;
-      this.atInputStart = false;
     }
     let gapStart = from;
     let lineAtConsumed = this.line;
@@ -116,6 +115,7 @@ export class RecordScanner {
       view.line = recordLine;
       view.gapStart = gapStart;
       view.contentStart = pos;
+      this.atInputStart = false;
       onRecord(view);
       pos = view.next;
       consumed = pos;

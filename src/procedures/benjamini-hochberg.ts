@@ -10,13 +10,12 @@
 // dependence use Benjamini-Yekutieli. The adjusted p-value of the i-th
 // smallest is min over j >= i of (m / j) p(j), capped at 1.
 //
-// Cost: O(m log m) for the sort, then one linear pass.
+// Cost: one sort, then one linear pass.
 // Source: Benjamini, Y. & Hochberg, Y. (1995). Controlling the false
 // discovery rate: a practical and powerful approach to multiple testing.
 // Journal of the Royal Statistical Society B 57:289-300.
 
-import { inInputOrder, sortedAscending } from './sorting.js';
-import { checkedTestCount } from './validate.js';
+import { adjustInInputOrder } from './sorting.js';
 
 /**
  * The BH running minimum of (m / j) p(j) over ascending `sorted`, not capped
@@ -32,11 +31,14 @@ export function stepUpMinimum(sorted: Float64Array, m: number): Float64Array {
   return out;
 }
 
-/** BH adjusted p-values in input order; m may exceed p.length (absent tests count as p = 1). */
-export function adjustBenjaminiHochberg(p: Float64Array, m: number = p.length): Float64Array {
-  const tests = checkedTestCount(p, m);
-  const sorted = sortedAscending(p);
-  const adjusted = stepUpMinimum(sorted, tests);
+/** BH adjusted values of ascending p-values; m may exceed sorted.length (absent tests count as p = 1). */
+export function benjaminiHochbergSorted(sorted: Float64Array, m: number): Float64Array {
+  const adjusted = stepUpMinimum(sorted, m);
   for (let i = 0; i < adjusted.length; i++) adjusted[i] = Math.min(1, adjusted[i]);
-  return inInputOrder(p, sorted, adjusted);
+  return adjusted;
+}
+
+/** BH adjusted p-values in input order. */
+export function adjustBenjaminiHochberg(p: Float64Array, m: number = p.length): Float64Array {
+  return adjustInInputOrder(p, m, benjaminiHochbergSorted);
 }

@@ -7,17 +7,21 @@
 // whatever the dependence between the tests. It is single-step and the most
 // conservative of the classic procedures: Holm rejects everything it rejects.
 //
-// Cost: O(m), no sorting.
+// Cost: O(m); it needs no sorting, but works on sorted input like the others.
 // Source: Dunn, O. J. (1961). Multiple comparisons among means. Journal of
 // the American Statistical Association 56:52-64 (the use of Bonferroni's
 // inequality for simultaneous tests).
 
 import { checkedTestCount } from './validate.js';
 
-/** Bonferroni adjusted p-values, min(1, m * p), in input order. */
-export function adjustBonferroni(p: Float64Array, m: number = p.length): Float64Array {
-  const tests = checkedTestCount(p, m);
+/** min(1, m * p) for each p; the order of the values does not matter. */
+export function bonferroniSorted(p: Float64Array, m: number): Float64Array {
   const out = new Float64Array(p.length);
-  for (let i = 0; i < p.length; i++) out[i] = Math.min(1, tests * p[i]);
+  for (let i = 0; i < p.length; i++) out[i] = Math.min(1, m * p[i]);
   return out;
+}
+
+/** Bonferroni adjusted p-values in input order. */
+export function adjustBonferroni(p: Float64Array, m: number = p.length): Float64Array {
+  return bonferroniSorted(p, checkedTestCount(p, m));
 }

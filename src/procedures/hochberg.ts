@@ -10,22 +10,24 @@
 // dependence; Sarkar 1998, Annals of Statistics 26:494-504), not under
 // arbitrary dependence. It rejects at least what Holm rejects.
 //
-// Cost: O(m log m) for the sort, then one linear pass.
+// Cost: one sort, then one linear pass.
 // Source: Hochberg, Y. (1988). A sharper Bonferroni procedure for multiple
 // tests of significance. Biometrika 75:800-802.
 
-import { inInputOrder, sortedAscending } from './sorting.js';
-import { checkedTestCount } from './validate.js';
+import { adjustInInputOrder } from './sorting.js';
 
-/** Hochberg adjusted p-values in input order; m may exceed p.length (absent tests count as p = 1). */
-export function adjustHochberg(p: Float64Array, m: number = p.length): Float64Array {
-  const tests = checkedTestCount(p, m);
-  const sorted = sortedAscending(p);
+/** Hochberg adjusted values of ascending p-values; m may exceed sorted.length (absent tests count as p = 1). */
+export function hochbergSorted(sorted: Float64Array, m: number): Float64Array {
   const adjusted = new Float64Array(sorted.length);
   let runningMin = Infinity;
   for (let i = sorted.length - 1; i >= 0; i--) {
-    runningMin = Math.min(runningMin, (tests - i) * sorted[i]);
+    runningMin = Math.min(runningMin, (m - i) * sorted[i]);
     adjusted[i] = Math.min(1, runningMin);
   }
-  return inInputOrder(p, sorted, adjusted);
+  return adjusted;
+}
+
+/** Hochberg adjusted p-values in input order. */
+export function adjustHochberg(p: Float64Array, m: number = p.length): Float64Array {
+  return adjustInInputOrder(p, m, hochbergSorted);
 }

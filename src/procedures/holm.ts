@@ -8,22 +8,24 @@
 // It controls the family-wise error rate (FWER) at alpha under any
 // dependence, like Bonferroni, and never rejects less than Bonferroni.
 //
-// Cost: O(m log m) for the sort, then one linear pass.
+// Cost: one sort, then one linear pass.
 // Source: Holm, S. (1979). A simple sequentially rejective multiple test
 // procedure. Scandinavian Journal of Statistics 6:65-70.
 
-import { inInputOrder, sortedAscending } from './sorting.js';
-import { checkedTestCount } from './validate.js';
+import { adjustInInputOrder } from './sorting.js';
 
-/** Holm adjusted p-values in input order; m may exceed p.length (absent tests count as p = 1). */
-export function adjustHolm(p: Float64Array, m: number = p.length): Float64Array {
-  const tests = checkedTestCount(p, m);
-  const sorted = sortedAscending(p);
+/** Holm adjusted values of ascending p-values; m may exceed sorted.length (absent tests count as p = 1). */
+export function holmSorted(sorted: Float64Array, m: number): Float64Array {
   const adjusted = new Float64Array(sorted.length);
   let runningMax = 0;
   for (let i = 0; i < sorted.length; i++) {
-    runningMax = Math.max(runningMax, (tests - i) * sorted[i]);
+    runningMax = Math.max(runningMax, (m - i) * sorted[i]);
     adjusted[i] = Math.min(1, runningMax);
   }
-  return inInputOrder(p, sorted, adjusted);
+  return adjusted;
+}
+
+/** Holm adjusted p-values in input order. */
+export function adjustHolm(p: Float64Array, m: number = p.length): Float64Array {
+  return adjustInInputOrder(p, m, holmSorted);
 }

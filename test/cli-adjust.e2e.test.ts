@@ -1,0 +1,206 @@
+// famwise adjust end to end, through the built CLI.
+import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { famwise } from './helpers/cli.js';
+
+const work = mkdtempSync(join(tmpdir(), 'famwise-e2e-'));
+function file(name: string, content: string | Buffer): string {
+  const path = join(work, name);
+  writeFileSync(path, content);
+  return path;
+}
+
+describe('pipes and formats', () => {
+  it('reads stdin and writes CSV with adj_ and rej_ columns per method, in the order given', () => {
+    const run = famwise(['adjust', '--methods', 'holm,bh', '--quiet'], 'id,p_value\na,0.01\nb,0.04\nc,0.03\n');
+    expect(run.status).toBe(0);
+    expect(run.stderr).toBe('');
+    expect(run.stdout).toBe(
+      'id,p_value,adj_holm,rej_holm,adj_bh,rej_bh\na,0.01,0.03,true,0.03,true\nb,0.04,0.06,false,0.04,true\nc,0.03,0.06,false,0.04,true\n',
+    );
+  });
+
+  it('passes every original byte through: quotes, commas and newlines in fields, unicode, CRLF, BOM, blank lines, no final newline', () => {
+    const input = '\ufeffgene,"note, quoted",p\r\n"g1","ünï ""q""\r\nsecond line",0.010\r\n\r\nG2,,1E-3\r\nG3,日本,NA\r\nG4," spaced ",0.5';
+    const run = famwise(['adjust', '--methods', 'bonferroni', '--quiet'], input);
+    expect(run.status).toBe(0);
+    const expected =
+      '\ufeffgene,"note, quoted",p,adj_bonferroni,rej_bonferroni\r\n"g1","ünï ""q""\r\nsecond line",0.010,0.03,true\r\n\r\nG2,,1E-3,0.003,true\r\nG3,日本,NA,,\r\nG4," spaced ",0.5,1,false';
+    expect(run.stdoutBytes.equals(Buffer.from(expected))).toBe(true);
+  });
+
+  it('keeps bytes that are not valid UTF-8 in other columns unchanged', () => {
+    const input = Buffer.concat([Buffer.from('name,p\n'), Buffer.from([0x63, 0x61, 0x66, 0xe9]), Buffer.from(',0.2\n')]);
+    const run = famwise(['adjust', '--quiet'], input);
+    expect(run.stdoutBytes.equals(Buffer.concat([Buffer.from('name,p,adj_bh,rej_bh\n'), Buffer.from([0x63, 0x61, 0x66, 0xe9]), Buffer.from(',0.2,0.2,false\n')]))).toBe(true);
+  });
+
+  it('writes TSV for TSV input, and converts when --format asks', () => {
+    const input = 'id\tp\tnote\nx\t0.02\ta,b\ny\t0.03\t"q"\n';
+    expect(famwise(['adjust', '--quiet'], input).stdout).toBe('id\tp\tnote\tadj_bh\trej_bh\nx\t0.02\ta,b\t0.03\ttrue\ny\t0.03\t"q"\t0.03\ttrue\n');
+    expect(famwise(['adjust', '--quiet', '--format', 'csv'], input).stdout).toBe('id,p,note,adj_bh,rej_bh\nx,0.02,"a,b",0.03,true\ny,0.03,q,0.03,true\n');
+  });
+
+  it('gives the same bytes from a file as from a pipe', () => {
+    const input = readFileSync(new URL('../demo-data/enzyme-screen.csv', import.meta.url));
+    const path = file('demo.csv', input);
+    const args = ['adjust', '--family', 'storage_temp', '--methods', 'bh,by,holm', '--quiet'];
+    const fromFile = famwise([...args, path]);
+    const fromPipe = famwise(args, input);
+    expect(fromFile.status).toBe(0);
+    expect(fromFile.stdoutBytes.equals(fromPipe.stdoutBytes)).toBe(true);
+    expect(famwise([...args, '-'], input).stdoutBytes.equals(fromPipe.stdoutBytes)).toBe(true);
+  });
+
+  it('prints an aligned table with --format table', () => {
+    const run = famwise(['adjust', '--values', '0.01,0.04,0.03', '--methods', 'bonferroni', '--format', 'table', '--quiet']);
+    expect(run.stdout).toBe('   p  adj_bonferroni  rej_bonferroni\n0.01            0.03  true\n0.04            0.12  false\n0.03            0.09  false\n');
+  });
+
+  it('accepts p-values pasted one per line with no header, and says how it read the first line', () => {
+    const run = famwise(['adjust', '--methods', 'bonferroni'], '0.01\n0.02\n');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toBe('0.01,0.02,true\n0.02,0.04,true\n');
+    expect(run.stderr).toMatch(/note: the first line holds only numbers, so it is read as data/);
+  });
+
+  it('reads a ;-separated table with decimal commas', () => {
+    const run = famwise(['adjust', '--quiet', '--methods', 'bonferroni'], 'id;p\na;0,01\nb;0,2\n');
+    expect(run.stdout).toBe('id;p;adj_bonferroni;rej_bonferroni\na;0,01;0.02;true\nb;0,2;0.4;false\n');
+  });
+});
+
+describe('families, tests and missing values', () => {
+  const table = 'plate,well,p\nA,1,0.01\nB,1,0.02\nA,2,0.03\nB,2,\nA,3,0.04\nB,3,0.001\n';
+
+  it('adjusts each family on its own and reports each in the JSON summary', () => {
+    const summary = join(work, 'summary.json');
+    const run = famwise(['adjust', '--family', 'plate', '--methods', 'bh,holm', '--summary', summary], table);
+    expect(run.status).toBe(0);
+    // Family A: 0.01, 0.03, 0.04 -> BH 0.03, 0.04, 0.04. Family B: 0.02, missing, 0.001 -> BH 0.02, -, 0.002.
+    expect(run.stdout.split('\n').map((line) => line.split(',').slice(0, 5).join(','))).toEqual([
+      'plate,well,p,adj_bh,rej_bh',
+      'A,1,0.01,0.03,true',
+      'B,1,0.02,0.02,true',
+      'A,2,0.03,0.04,true',
+      'B,2,,,',
+      'A,3,0.04,0.04,true',
+      'B,3,0.001,0.002,true',
+      '',
+    ]);
+    expect(JSON.parse(readFileSync(summary, 'utf8'))).toEqual({
+      alpha: 0.05,
+      rows: [
+        { family: { plate: 'A' }, method: 'bh', tested: 3, missing: 0, m: 3, rejected: 3, threshold: 0.04 },
+        { family: { plate: 'A' }, method: 'holm', tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01 },
+        { family: { plate: 'B' }, method: 'bh', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02 },
+        { family: { plate: 'B' }, method: 'holm', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02 },
+      ],
+    });
+    expect(run.stderr).toMatch(/plate=A\s+bh\s+3\s+0\s+3\s+3\s+0\.04/);
+  });
+
+  it('combines several family columns', () => {
+    const run = famwise(['adjust', '--family', 'a,b', '--methods', 'bonferroni', '--quiet'], 'a,b,p\nx,1,0.01\nx,2,0.01\nx,1,0.02\n');
+    expect(run.stdout).toBe('a,b,p,adj_bonferroni,rej_bonferroni\nx,1,0.01,0.02,true\nx,2,0.01,0.01,true\nx,1,0.02,0.04,true\n');
+  });
+
+  it('counts the tests the table does not hold with --tests', () => {
+    const run = famwise(['adjust', '--tests', '10', '--methods', 'bonferroni,bh', '--quiet'], 'p\n0.001\n0.004\n');
+    expect(run.stdout).toBe('p,adj_bonferroni,rej_bonferroni,adj_bh,rej_bh\n0.001,0.01,true,0.01,true\n0.004,0.04,true,0.02,true\n');
+  });
+
+  it('refuses --tests smaller than a family and names the family', () => {
+    const run = famwise(['adjust', '--family', 'plate', '--tests', '2'], table);
+    expect(run.status).toBe(2);
+    expect(run.stderr).toBe('famwise: --tests 2: family plate=A holds 3 p-values; --tests must be at least that\n');
+    expect(run.stdout).toBe('');
+  });
+});
+
+describe('errors name the place and the text, with the right status', () => {
+  const cases: [string, string[], string, number, RegExp][] = [
+    ['a p-value above 1', ['adjust'], 'id,p\na,0.5\nb,1.5\n', 1, /^famwise: <stdin>:3: column "p": "1\.5" is not a p-value: p-values cannot exceed 1/],
+    ['a negative p-value', ['adjust'], 'id,p\na,-0.1\n', 1, /<stdin>:2: column "p": "-0\.1" is not a p-value: p-values cannot be negative/],
+    ['text', ['adjust'], 'id,p\na,0.1\nb,abc\n', 1, /<stdin>:3: column "p": "abc" is not a p-value: expected a number from 0 to 1/],
+    ['a bound', ['adjust'], 'id,p\na,<2e-16\n', 1, /<stdin>:2: column "p": "<2e-16" is not a p-value: it is a bound/],
+    ['a row with too few fields', ['adjust'], 'id,x,p\na,1,0.1\nb,0.2\n', 1, /<stdin>:3: 2 fields where the header has 3/],
+    ['an unterminated quote', ['adjust'], 'id,p\n"a,0.1\n', 1, /<stdin>:2: field 1: a quoted field opened here is never closed/],
+    ['an empty input', ['adjust'], '', 1, /<stdin>: the input is empty/],
+    ['an unknown p column', ['adjust', '--p-column', 'pv'], 'id,p\na,0.1\n', 2, /--p-column "pv": no such column; the columns are "id", "p"/],
+    ['no p column', ['adjust'], 'id,score\na,0.1\n', 2, /no column is named like a p-value column.*--p-column/],
+    ['two p columns', ['adjust'], 'pval,p_value\n0.1,0.2\n', 2, /several columns could hold the raw p-values: "pval", "p_value"/],
+    ['an unknown family column', ['adjust', '--family', 'plate'], 'id,p\na,0.1\n', 2, /--family "plate": no such column/],
+    ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; the methods are bonferroni, holm, hochberg, bh, by/],
+    ['alpha out of range', ['adjust', '--alpha', '1'], 'p\n0.1\n', 2, /--alpha "1": needs a level between 0 and 1/],
+    ['alpha not a number', ['adjust', '--alpha', '5%'], 'p\n0.1\n', 2, /--alpha "5%"/],
+    ['tests not a number', ['adjust', '--tests', 'many'], 'p\n0.1\n', 2, /--tests "many": needs a whole number/],
+    ['an unknown option', ['adjust', '--colour'], 'p\n0.1\n', 2, /famwise: unknown option '--colour'/],
+    ['a missing file', ['adjust', 'no-such-file.csv'], '', 2, /famwise: no-such-file\.csv: no such file/],
+    ['an existing output column', ['adjust'], 'p,adj_bh\n0.1,0.1\n', 2, /the table already has a column "adj_bh"; use --replace/],
+    ['a headerless table of several columns', ['adjust', '--no-header'], 'a,0.1\n', 2, /no header and 2 columns.*--p-column N/],
+    ['a bad delimiter', ['adjust', '--delimiter', 'x'], 'p\n0.1\n', 2, /--delimiter "x": accepts comma, tab, semicolon or pipe/],
+    ['values and a file', ['adjust', 'x.csv', '--values', '0.1'], '', 2, /--values: give either p-values or a table, not both/],
+  ];
+  for (const [name, args, input, status, message] of cases) {
+    it(name, () => {
+      const run = famwise(args, input, work);
+      expect(run.status).toBe(status);
+      expect(run.stderr).toMatch(message);
+      expect(run.stderr).not.toMatch(/\n\s+at /); // no stack trace
+      expect(run.stdout).toBe('');
+    });
+  }
+
+  it('does not create -o FILE when the data are bad, and leaves no temporary file', () => {
+    const folder = mkdtempSync(join(work, 'out-'));
+    const output = join(folder, 'adjusted.csv');
+    const run = famwise(['adjust', '-o', output], 'id,p\na,0.1\nb,2\n');
+    expect(run.status).toBe(1);
+    expect(existsSync(output)).toBe(false);
+    expect(readdirSync(folder)).toEqual([]);
+  });
+
+  it('leaves an existing -o FILE untouched when the data are bad', () => {
+    const output = file('keep.csv', 'precious\n');
+    expect(famwise(['adjust', '-o', output], 'id,p\na,x\n').status).toBe(1);
+    expect(readFileSync(output, 'utf8')).toBe('precious\n');
+  });
+
+  it('refuses an output folder that does not exist before reading anything', () => {
+    const run = famwise(['adjust', '-o', join(work, 'nowhere', 'x.csv')], 'p\n0.1\n');
+    expect(run.status).toBe(2);
+    expect(run.stderr).toMatch(/--output .*the folder .*nowhere does not exist/);
+  });
+
+  it('writes -o FILE and the summary when all is well', () => {
+    const output = join(work, 'ok.csv');
+    const run = famwise(['adjust', '-o', output, '--quiet'], 'p\n0.2\n');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toBe('');
+    expect(readFileSync(output, 'utf8')).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
+  });
+});
+
+describe('replacing, headers and help', () => {
+  it('overwrites existing adj_/rej_ columns in place with --replace', () => {
+    const run = famwise(['adjust', '--replace', '--quiet', '--methods', 'bonferroni'], 'p,adj_bonferroni,note\n0.01,9,x\n0.02,9,y\n');
+    expect(run.stdout).toBe('p,adj_bonferroni,note,rej_bonferroni\n0.01,0.02,x,true\n0.02,0.04,y,true\n');
+  });
+
+  it('takes --p-column by position without a header', () => {
+    const run = famwise(['adjust', '--no-header', '--p-column', '2', '--quiet', '--methods', 'bonferroni'], 'a,0.01\nb,0.02\n');
+    expect(run.stdout).toBe('a,0.01,0.02,true\nb,0.02,0.04,true\n');
+  });
+
+  it('prints the version and help with exit status 0', () => {
+    const version = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')).version as string;
+    expect(famwise(['--version']).stdout.trim()).toBe(version);
+    const help = famwise(['adjust', '--help']);
+    expect(help.status).toBe(0);
+    expect(help.stdout).toMatch(/Exit status:\n0 {2}success\n1 {2}invalid data/);
+    expect(help.stdout).toMatch(/qualified statistician/);
+  });
+});

@@ -1,0 +1,92 @@
+// Reading cells and tables: the number grammar, the missing-value list,
+// delimiter sniffing, and within-family adjustment on hand-worked examples.
+import { describe, expect, it } from 'vitest';
+import { adjustWithinFamilies, singleFamily } from '../src/families.js';
+import { sniffDelimiter } from '../src/io/dialect.js';
+import { MISSING_MARKS, readPValue } from '../src/io/p-value-text.js';
+import { readTable } from '../src/io/read-table.js';
+import { bufferSource } from '../src/io/source.js';
+import { findMethod, type Method } from '../src/methods.js';
+
+describe('readPValue', () => {
+  it.each([
+    ['0.05', 0.05], ['.05', 0.05], ['5E-3', 0.005], ['5e-03', 0.005], [' 0.05 ', 0.05], ['0', 0], ['1', 1], ['1.0', 1],
+    ['1e-300', 1e-300], ['1e-400', 0], ['+0.5', 'invalid'], ['0.5.1', 'invalid'], ['1.0000001', 'invalid'], ['-0.01', 'invalid'],
+    ['Inf', 'invalid'], ['0x1', 'invalid'], ['5%', 'invalid'], ['<2e-16', 'invalid'], ['0,05', 'invalid'], ['1,000', 'invalid'],
+  ])('%j -> %s', (text, expected) => {
+    expect(readPValue(text)).toBe(expected);
+  });
+
+  it('reads every missing-value mark as missing', () => {
+    for (const mark of MISSING_MARKS) expect(readPValue(mark)).toBe('missing');
+    expect(readPValue('   ')).toBe('missing');
+  });
+
+  it('reads a decimal comma only when asked', () => {
+    expect(readPValue('0,05', true)).toBe(0.05);
+    expect(readPValue('0.05', true)).toBe(0.05);
+    expect(readPValue('1,5', true)).toBe('invalid');
+  });
+});
+
+describe('sniffDelimiter', () => {
+  const sniff = (text: string, extension = '') => String.fromCharCode(sniffDelimiter(Buffer.from(text), extension));
+  it('picks the delimiter of the first line, ignoring quoted text', () => {
+    expect(sniff('a,b,c\n1\t2\n')).toBe(',');
+    expect(sniff('a\tb\tc\n')).toBe('\t');
+    expect(sniff('"x, y; z"\tb\n')).toBe('\t');
+    expect(sniff('id;p\n0,5;1\n')).toBe(';');
+    expect(sniff('p\n0.1\n', 'tsv')).toBe('\t');
+    expect(sniff('p\n0.1\n')).toBe(',');
+  });
+});
+
+describe('readTable', () => {
+  it('keeps p-values and family ids in typed arrays, families in order of first appearance', async () => {
+    const table = await readTable(bufferSource(Buffer.from('g,p\nb,0.1\na,NA\nb,0.3\n'), 't'), { familyColumns: ['g'] });
+    expect(table.p).toBeInstanceOf(Float64Array);
+    expect(Array.from(table.p)).toEqual([0.1, NaN, 0.3]);
+    expect(Array.from(table.families.ids)).toEqual([0, 1, 0]);
+    expect(table.familyValues).toEqual([['b'], ['a']]);
+  });
+
+  it('keeps family values apart when several columns could run together', async () => {
+    const table = await readTable(bufferSource(Buffer.from('a,b,p\n"x,y",z,0.1\nx,"y,z",0.2\n'), 't'), { familyColumns: ['a', 'b'] });
+    expect(table.families.count).toBe(2);
+  });
+
+  it('finds the p-value column by common names', async () => {
+    for (const name of ['p', 'P', 'pvalue', 'p_value', 'P.Value', 'pval', 'Pr(>|t|)', 'p-value']) {
+      const table = await readTable(bufferSource(Buffer.from(`id,${name},x\na,0.1,2\n`), 't'), {});
+      expect(table.pColumn).toBe(1);
+    }
+  });
+});
+
+describe('adjustWithinFamilies', () => {
+  const bh = findMethod('bh') as Method;
+  const holm = findMethod('holm') as Method;
+
+  it('equals adjusting each family separately, and leaves missing rows NaN', () => {
+    const p = Float64Array.of(0.01, 0.2, NaN, 0.03, 0.04, 0.001);
+    const ids = Int32Array.of(0, 1, 1, 0, 0, 1);
+    const result = adjustWithinFamilies(p, { ids, count: 2 }, [bh, holm], { alpha: 0.05 });
+    const family0 = bh.adjust(Float64Array.of(0.01, 0.03, 0.04), 3);
+    const family1 = bh.adjust(Float64Array.of(0.2, 0.001), 2);
+    expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([family0[0], family1[0], NaN, family0[1], family0[2], family1[1]]);
+    expect(result.outcomes[1]?.[0]).toEqual({ tested: 2, missing: 1, m: 2, rejected: 1, threshold: 0.001 });
+    // Holm in family 0: 3 * 0.01 = 0.03, max(2 * 0.03, 0.03) = 0.06, 0.06: one rejection at 0.05.
+    expect(result.outcomes[0]?.[1]).toEqual({ tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01 });
+  });
+
+  it('uses --tests as m in every family', () => {
+    const result = adjustWithinFamilies(Float64Array.of(0.001, 0.002), singleFamily(2), [bh], { alpha: 0.05, tests: 100 });
+    expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.1, 0.1]);
+    expect(result.outcomes[0]?.[0]?.m).toBe(100);
+  });
+
+  it('handles a table with no rows', () => {
+    const result = adjustWithinFamilies(new Float64Array(0), singleFamily(0), [bh], { alpha: 0.05 });
+    expect(result.outcomes[0]?.[0]).toEqual({ tested: 0, missing: 0, m: 0, rejected: 0, threshold: null });
+  });
+});
