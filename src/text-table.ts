@@ -1,6 +1,10 @@
 // Aligned plain-text tables for reading at a terminal: columns padded with
 // spaces, numbers right-aligned. Used by the summary and by --format table.
 
+import { MISSING_MARKS } from './io/p-value-text.js';
+
+const missing = new Set(MISSING_MARKS);
+
 const NUMERIC = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /** Display width: code points, not UTF-16 units (wide East Asian characters count as one). */
@@ -18,7 +22,7 @@ export function alignedTable(header: readonly string[], rows: readonly (readonly
     for (let k = 0; k < columns; k++) {
       const cell = row[k] ?? '';
       widths[k] = Math.max(widths[k] as number, width(cell));
-      if (cell !== '' && !NUMERIC.test(cell)) numeric[k] = false;
+      if (!missing.has(cell) && !NUMERIC.test(cell)) numeric[k] = false;
     }
   }
   const line = (cells: readonly string[]): string =>

@@ -138,7 +138,11 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
 
 function chooseFormat(options: AdjustOptions, table: Table): OutputFormat {
   const format = options.format ?? (options.output === undefined && process.stdout.isTTY ? 'table' : undefined);
-  if (format === 'table') return 'table';
+  if (format === 'table') {
+    // Without a header, columns are known by position; the p-values by name.
+    const { names, columnCount } = table.shape;
+    return { headings: names ?? Array.from({ length: columnCount }, (_, k) => (k === table.pColumn ? 'p' : String(k + 1))) };
+  }
   if (format === 'tsv') return { delimiter: TAB };
   if (format === 'csv') return { delimiter: COMMA };
   return { delimiter: table.shape.delimiter };
@@ -155,6 +159,9 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     pColumn: fromValues ? 'p' : options.pColumn,
     familyColumns: options.family,
   });
+  if (!options.quiet) {
+    for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice}\n`);
+  }
   const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
   const methods = options.methods;
 
@@ -187,8 +194,5 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     throw error;
   }
 
-  if (!options.quiet) {
-    for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice}\n`);
-    process.stderr.write(summaryText(summary));
-  }
+  if (!options.quiet) process.stderr.write(summaryText(summary));
 }

@@ -12,7 +12,7 @@ import { scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
 /** An aligned text table for reading, or delimited text with this delimiter byte. */
-export type OutputFormat = 'table' | { readonly delimiter: number };
+export type OutputFormat = AlignedFormat | { readonly delimiter: number };
 
 /** A column the writer adds, or writes over an existing one with the same name. */
 export interface OutputColumn {
@@ -31,9 +31,9 @@ function quoted(text: string, delimiter: string): string {
   return needsQuotes(text, delimiter) ? `"${text.replaceAll('"', '""')}"` : text;
 }
 
-/** Column headings for the table format: the header's names, or positions 1..n. */
-function headings(shape: TableShape): string[] {
-  return shape.names ? [...shape.names] : Array.from({ length: shape.columnCount }, (_, k) => String(k + 1));
+/** An aligned text table for reading, with these headings for the table's own columns. */
+export interface AlignedFormat {
+  readonly headings: readonly string[];
 }
 
 export async function writeTable(
@@ -59,7 +59,7 @@ export async function writeTable(
     return cells;
   };
 
-  if (format === 'table') {
+  if ('headings' in format) {
     const rows: string[][] = [];
     await scanInput(source, shape.delimiter, {
       record(view) {
@@ -68,7 +68,7 @@ export async function writeTable(
       },
     });
     checkRowCount(source, row, expectedRows);
-    const header = [...headings(shape), ...appended.map((column) => column.name)];
+    const header = [...format.headings, ...appended.map((column) => column.name)];
     sink.push(alignedTable(header, rows));
     await sink.flush(true);
     return;
