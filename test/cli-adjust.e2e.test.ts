@@ -142,6 +142,7 @@ describe('errors name the place and the text, with the right status', () => {
     ['an existing output column', ['adjust'], 'p,adj_bh\n0.1,0.1\n', 2, /the table already has a column "adj_bh"; use --replace/],
     ['a headerless table of several columns', ['adjust', '--no-header'], 'a,0.1\n', 2, /no header and 2 columns.*--p-column N/],
     ['a bad delimiter', ['adjust', '--delimiter', 'x'], 'p\n0.1\n', 2, /--delimiter "x": accepts comma, tab, semicolon or pipe/],
+    ['the same file for output and summary', ['adjust', '-o', 'x.csv', '--summary', 'x.csv'], 'p\n0.1\n', 2, /--summary x\.csv: is also the --output file/],
     ['values and a file', ['adjust', 'x.csv', '--values', '0.1'], '', 2, /--values: give either p-values or a table, not both/],
   ];
   for (const [name, args, input, status, message] of cases) {

@@ -151,6 +151,9 @@ function chooseFormat(options: AdjustOptions, table: Table): OutputFormat {
 async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
   if (options.output !== undefined) checkWritable(options.output, '--output');
   if (options.summary !== undefined) checkWritable(options.summary, '--summary');
+  if (options.output !== undefined && options.output === options.summary) {
+    throw new UsageError(`--summary ${options.summary}: is also the --output file; give them different names`);
+  }
   const fromValues = valuesSource(options, file);
   const source = fromValues ?? (await openInput(file));
   const table = await readTable(source, {

@@ -52,10 +52,13 @@ process.stdout.on('error', (error: NodeJS.ErrnoException) => {
   if (error.code === 'EPIPE') process.exit(EXIT.ok);
   fail(error);
 });
-process.on('SIGINT', () => {
-  removeUnfinishedFiles();
-  process.exit(130);
-});
+// An interrupt or a cancelled CI job leaves no temporary files behind.
+for (const [signal, status] of [['SIGINT', 130], ['SIGTERM', 143]] as const) {
+  process.on(signal, () => {
+    removeUnfinishedFiles();
+    process.exit(status);
+  });
+}
 
 program()
   .parseAsync(process.argv)
