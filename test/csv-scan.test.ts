@@ -11,9 +11,9 @@ interface Scanned {
   raw: string;
 }
 
-function scanAll(text: string | Buffer, delimiter = ',', splitAt?: number): Scanned[] {
+function scanAll(text: string | Buffer, delimiter = ',', splitAt?: number, loneCrEndsLine = false): Scanned[] {
   const bytes = Buffer.isBuffer(text) ? text : Buffer.from(text);
-  const scanner = new RecordScanner(delimiter.charCodeAt(0), 'test.csv');
+  const scanner = new RecordScanner(delimiter.charCodeAt(0), 'test.csv', loneCrEndsLine);
   const out: Scanned[] = [];
   const onRecord = (view: RecordView): void => {
     out.push({
@@ -44,13 +44,15 @@ const corpus: Record<string, string> = {
   'blank lines between': 'a,b\n1,2\n\n3,4\n\n',
   'empty quoted field': 'a,b\n"",1\n"x",""\n',
   'quote inside an unquoted field': 'a,b\n5" tall,2\n',
+  'lone CR inside unquoted fields (left unquoted by many writers)': 'a,b\nx\ry,1\n\r,2\r\nz,\r\n',
+  'mixed LF and CRLF': 'a,b\r\n1,2\n3,4\r\n5,6\n',
 };
 
 describe('records and fields agree with csv-parse', () => {
   for (const [name, text] of Object.entries(corpus)) {
     it(name, () => {
-      // csv-parse 6 (npm): the same dialect, blank lines skipped, BOM removed.
-      const expected = parse(text, { bom: true, skip_empty_lines: true, relax_column_count: true, relax_quotes: true }) as string[][];
+      // csv-parse 6 (npm) in the same dialect: records end at CRLF or LF, blank lines skipped, BOM removed.
+      const expected = parse(text, { bom: true, skip_empty_lines: true, relax_column_count: true, relax_quotes: true, record_delimiter: ['\r\n', '\n'] }) as string[][];
       expect(scanAll(text).map((record) => record.fields)).toEqual(expected);
     });
   }
@@ -76,6 +78,14 @@ describe('bytes and lines', () => {
   it('numbers lines physically, counting newlines inside quotes and blank lines', () => {
     const lines = scanAll('h,t\n1,"a\nb\nc"\n\n2,x\r\n3,y\n').map((record) => record.line);
     expect(lines).toEqual([1, 2, 6, 7]);
+  });
+
+  it('ends lines at a lone CR in a file with classic Mac line endings', () => {
+    const text = 'a,b\r1,"x\ry"\r\r2,3\r';
+    const records = scanAll(text, ',', undefined, true);
+    expect(records.map((record) => record.fields)).toEqual([['a', 'b'], ['1', 'x\ry'], ['2', '3']]);
+    expect(records.map((record) => record.line)).toEqual([1, 2, 5]);
+    for (let cut = 0; cut <= text.length; cut++) expect(scanAll(text, ',', cut, true)).toEqual(records);
   });
 
   it('handles tab and semicolon delimiters', () => {

@@ -2,7 +2,7 @@
 // delimiter sniffing, and within-family adjustment on hand-worked examples.
 import { describe, expect, it } from 'vitest';
 import { adjustWithinFamilies, singleFamily } from '../src/families.js';
-import { sniffDelimiter } from '../src/io/dialect.js';
+import { sniffDelimiter, sniffLoneCr } from '../src/io/dialect.js';
 import { MISSING_MARKS, readPValue } from '../src/io/p-value-text.js';
 import { readTable } from '../src/io/read-table.js';
 import { bufferSource } from '../src/io/source.js';
@@ -38,6 +38,15 @@ describe('sniffDelimiter', () => {
     expect(sniff('id;p\n0,5;1\n')).toBe(';');
     expect(sniff('p\n0.1\n', 'tsv')).toBe('\t');
     expect(sniff('p\n0.1\n')).toBe(',');
+  });
+});
+
+describe('sniffLoneCr', () => {
+  it('is true only when the first line ends with a lone CR outside quotes', () => {
+    expect(sniffLoneCr(Buffer.from('a,b\r1,2\r'))).toBe(true);
+    expect(sniffLoneCr(Buffer.from('a,b\r\n1,2\r\n'))).toBe(false);
+    expect(sniffLoneCr(Buffer.from('a,b\n1,\r2\n'))).toBe(false);
+    expect(sniffLoneCr(Buffer.from('"a\rb",c\n'))).toBe(false);
   });
 });
 

@@ -6,8 +6,9 @@
 // Rules: a field that starts with a double quote is quoted and ends at the
 // next lone double quote ("" inside stands for one quote); it may hold
 // delimiters and line breaks. A quote elsewhere in a field is an ordinary
-// character. Records end at LF, CRLF or a lone CR. A line with no bytes at
-// all is not a record (blank lines are passed over, but kept by writers).
+// character. Records end at LF or CRLF; in a file whose first line ends
+// with a lone CR (classic Mac), at a lone CR too. A line with no bytes at all
+// is not a record (blank lines are passed over, but kept by writers).
 // A UTF-8 byte-order mark at the start of the input is not part of the first
 // field.
 
@@ -58,9 +59,15 @@ export class RecordScanner {
   private atInputStart = true;
   private readonly view: RecordView;
 
+  /**
+   * loneCrEndsLine: whether a CR not followed by LF ends a line (files with
+   * classic Mac line endings). Otherwise only LF and CRLF do, and a lone CR
+   * is an ordinary character, as many CSV writers leave it unquoted.
+   */
   constructor(
     private readonly delimiter: number,
     private readonly sourceName: string,
+    private readonly loneCrEndsLine = false,
   ) {
     this.view = {
       buf: Buffer.alloc(0),
@@ -73,6 +80,19 @@ export class RecordScanner {
       contentEnd: 0,
       next: 0,
     };
+  }
+
+  /**
+   * The length of the line break at pos: 0 if there is none, 1 (LF or CR) or
+   * 2 (CRLF); -1 if it cannot be told before more input arrives.
+   */
+  private lineBreakAt(buf: Buffer, pos: number, atEnd: boolean): number {
+    const byte = buf[pos];
+    if (byte === LF) return 1;
+    if (byte !== CR) return 0;
+    if (pos + 1 >= buf.length) return atEnd ? 1 : -1;
+    if (buf[pos + 1] === LF) return 2;
+    return this.loneCrEndsLine ? 1 : 0;
   }
 
   /**
@@ -95,20 +115,18 @@ export class RecordScanner {
     let lineAtConsumed = this.line;
     for (;;) {
       // Blank lines are not records.
-      while (pos < length && (buf[pos] === LF || buf[pos] === CR)) {
-        if (buf[pos] === CR && pos + 1 === length && !atEnd) break;
-        if (buf[pos] === CR && buf[pos + 1] === LF) pos++;
-        pos++;
+      let lineBreak = 0;
+      while (pos < length && (lineBreak = this.lineBreakAt(buf, pos, atEnd)) > 0) {
+        pos += lineBreak;
         this.line++;
       }
-      if (pos >= length || (buf[pos] === CR && !atEnd)) {
+      if (pos >= length || lineBreak === -1) {
         // Trailing blank lines stay unconsumed: the caller passes them on as they are.
         this.line = lineAtConsumed;
         return consumed;
       }
       const recordLine = this.line;
-      const end = this.scanRecord(buf, pos, atEnd);
-      if (end < 0) {
+      if (!this.scanRecord(buf, pos, atEnd)) {
         this.line = lineAtConsumed;
         return consumed;
       }
@@ -124,8 +142,8 @@ export class RecordScanner {
     }
   }
 
-  /** Scans one record starting at pos into the view; -1 if it is incomplete. */
-  private scanRecord(buf: Buffer, start: number, atEnd: boolean): number {
+  /** Scans one record starting at pos into the view; false if it is incomplete. */
+  private scanRecord(buf: Buffer, start: number, atEnd: boolean): boolean {
     const view = this.view;
     const length = buf.length;
     const delimiter = this.delimiter;
@@ -140,13 +158,13 @@ export class RecordScanner {
         for (;;) {
           const quote = buf.indexOf(QUOTE, pos);
           if (quote < 0) {
-            if (!atEnd) return -1;
+            if (!atEnd) return false;
             throw new DataError(
               `${this.sourceName}:${openLine}: field ${fields + 1}: a quoted field opened here is never closed (an unmatched " in the table?)`,
             );
           }
-          for (let i = pos; i < quote; i++) if (buf[i] === LF) this.line++;
-          if (quote + 1 >= length && !atEnd) return -1;
+          this.countLines(buf, pos, quote);
+          if (quote + 1 >= length && !atEnd) return false;
           if (buf[quote + 1] === QUOTE) {
             pos = quote + 2;
             continue;
@@ -154,16 +172,24 @@ export class RecordScanner {
           pos = quote + 1;
           break;
         }
-        const after = buf[pos];
-        if (pos < length && after !== delimiter && after !== LF && after !== CR) {
-          throw new DataError(
-            `${this.sourceName}:${this.line}: field ${fields + 1}: text ${JSON.stringify(String.fromCharCode(after))} follows the closing quote of a quoted field; a quote inside a quoted field is written as ""`,
-          );
+        if (pos < length && buf[pos] !== delimiter) {
+          const lineBreak = this.lineBreakAt(buf, pos, atEnd);
+          if (lineBreak < 0) return false;
+          if (lineBreak === 0) {
+            throw new DataError(
+              `${this.sourceName}:${this.line}: field ${fields + 1}: text ${JSON.stringify(String.fromCharCode(buf[pos]))} follows the closing quote of a quoted field; a quote inside a quoted field is written as ""`,
+            );
+          }
         }
       } else {
         while (pos < length) {
           const byte = buf[pos];
-          if (byte === delimiter || byte === LF || byte === CR) break;
+          if (byte === delimiter || byte === LF) break;
+          if (byte === CR) {
+            const lineBreak = this.lineBreakAt(buf, pos, atEnd);
+            if (lineBreak < 0) return false;
+            if (lineBreak > 0) break;
+          }
           pos++;
         }
       }
@@ -171,27 +197,30 @@ export class RecordScanner {
       view.ends[fields] = pos;
       fields++;
       if (pos >= length) {
-        if (!atEnd) return -1;
+        if (!atEnd) return false;
         view.fieldCount = fields;
         view.contentEnd = pos;
         view.next = pos;
-        return pos;
+        return true;
       }
-      const byte = buf[pos];
-      if (byte === delimiter) {
+      if (buf[pos] === delimiter) {
         pos++;
         continue;
       }
+      const lineBreak = this.lineBreakAt(buf, pos, atEnd);
+      if (lineBreak < 0) return false;
       view.fieldCount = fields;
       view.contentEnd = pos;
-      if (byte === CR) {
-        if (pos + 1 >= length && !atEnd) return -1;
-        view.next = buf[pos + 1] === LF ? pos + 2 : pos + 1;
-      } else {
-        view.next = pos + 1;
-      }
+      view.next = pos + lineBreak;
       this.line++;
-      return view.next;
+      return true;
+    }
+  }
+
+  /** Counts the line breaks inside a quoted field, so that later line numbers stay true. */
+  private countLines(buf: Buffer, from: number, to: number): void {
+    for (let i = from; i < to; i++) {
+      if (buf[i] === LF || (this.loneCrEndsLine && buf[i] === CR && buf[i + 1] !== LF)) this.line++;
     }
   }
 

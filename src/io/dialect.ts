@@ -1,4 +1,12 @@
-// The delimiter of a table: given by the user, or sniffed from the first line.
+// How a table is written: its delimiter (given by the user, or sniffed from
+// the first line) and whether a lone CR ends a line.
+
+/** What the scanner needs to know to split a table into records and fields. */
+export interface Dialect {
+  readonly delimiter: number;
+  /** True for files with classic Mac line endings (a lone CR ends each line). */
+  readonly loneCrEndsLine: boolean;
+}
 
 const TAB = 0x09;
 const QUOTE = 0x22;
@@ -45,6 +53,18 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
   }
   if (best >= 0) return best;
   return extension === 'tsv' || extension === 'tab' ? TAB : 0x2c;
+}
+
+/** Whether the first line break outside quotes is a lone CR. */
+export function sniffLoneCr(head: Buffer): boolean {
+  let inQuotes = false;
+  for (let i = 0; i < head.length; i++) {
+    const byte = head[i];
+    if (byte === QUOTE) inQuotes = !inQuotes;
+    else if (!inQuotes && byte === LF) return false;
+    else if (!inQuotes && byte === CR) return i + 1 < head.length && head[i + 1] !== LF;
+  }
+  return false;
 }
 
 export function delimiterName(delimiter: number): string {

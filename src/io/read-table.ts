@@ -5,7 +5,7 @@
 import { DataError, UsageError, quoteText } from '../errors.js';
 import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
-import { sniffDelimiter } from './dialect.js';
+import { type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { GrowableFloat64, GrowableInt32 } from './growable.js';
 import { readPValue, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
@@ -23,8 +23,7 @@ export interface ReadOptions {
 }
 
 /** The layout of a table, as the writers need it. */
-export interface TableShape {
-  readonly delimiter: number;
+export interface TableShape extends Dialect {
   /** Column names from the header, or null when there is none. */
   readonly names: readonly string[] | null;
   readonly columnCount: number;
@@ -105,7 +104,9 @@ function allNumbers(view: RecordView): boolean {
 
 /** Reads the p-values and families of a table (the first pass). */
 export async function readTable(source: InputSource, options: ReadOptions): Promise<Table> {
-  const delimiter = options.delimiter ?? sniffDelimiter(await peek(source, 1 << 16), source.extension);
+  const head = await peek(source, 1 << 16);
+  const delimiter = options.delimiter ?? sniffDelimiter(head, source.extension);
+  const loneCrEndsLine = sniffLoneCr(head);
   const decimalComma = delimiter === 0x3b;
   const notices: string[] = [];
   const p = new GrowableFloat64();
@@ -122,7 +123,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       notices.push('the first line holds only numbers, so it is read as data, not as a header (say --header if it is one)');
     }
     const names = header ? Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)) : null;
-    shape = { delimiter, names, columnCount: view.fieldCount };
+    shape = { delimiter, loneCrEndsLine, names, columnCount: view.fieldCount };
     pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
     return header;
@@ -154,7 +155,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     familyIds.push(id);
   };
 
-  await scanInput(source, delimiter, {
+  await scanInput(source, { delimiter, loneCrEndsLine }, {
     record(view) {
       if (shape === undefined) {
         if (start(view)) return;

@@ -3,6 +3,7 @@
 // the end of a block is carried into the next one.
 
 import { RecordScanner, type RecordView } from './csv-scan.js';
+import type { Dialect } from './dialect.js';
 import type { InputSource } from './source.js';
 
 const BLOCK_SIZE = 1 << 20;
@@ -27,8 +28,8 @@ export async function peek(source: InputSource, want: number): Promise<Buffer> {
   return Buffer.concat(parts);
 }
 
-export async function scanInput(source: InputSource, delimiter: number, handlers: ScanHandlers): Promise<void> {
-  const scanner = new RecordScanner(delimiter, source.name);
+export async function scanInput(source: InputSource, dialect: Dialect, handlers: ScanHandlers): Promise<void> {
+  const scanner = new RecordScanner(dialect.delimiter, source.name, dialect.loneCrEndsLine);
   let carry: Buffer = Buffer.alloc(0);
   let pending: Buffer[] = [];
   let pendingSize = 0;

@@ -61,7 +61,7 @@ export async function writeTable(
 
   if ('headings' in format) {
     const rows: string[][] = [];
-    await scanInput(source, shape.delimiter, {
+    await scanInput(source, shape, {
       record(view) {
         if (row >= 0) rows.push(cellsOf(view, row));
         row++;
@@ -76,7 +76,7 @@ export async function writeTable(
 
   const delimiter = String.fromCharCode(format.delimiter);
   const copyFields = format.delimiter === shape.delimiter;
-  await scanInput(source, shape.delimiter, {
+  await scanInput(source, shape, {
     record(view) {
       const { buf } = view;
       if (copyFields && replacing.size === 0) {
