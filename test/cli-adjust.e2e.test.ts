@@ -54,6 +54,10 @@ describe('pipes and formats', () => {
     expect(famwise([...args, '-'], input).stdoutBytes.equals(fromPipe.stdoutBytes)).toBe(true);
   });
 
+  it('takes method tokens in any case', () => {
+    expect(famwise(['adjust', '--values', '0.01', '--methods', 'BH,Holm', '--quiet']).stdout).toBe('p,adj_bh,rej_bh,adj_holm,rej_holm\n0.01,0.01,true,0.01,true\n');
+  });
+
   it('prints an aligned table with --format table', () => {
     const run = famwise(['adjust', '--values', '0.01,0.04,0.03', '--methods', 'bonferroni', '--format', 'table', '--quiet']);
     expect(run.stdout).toBe('   p  adj_bonferroni  rej_bonferroni\n0.01            0.03  true\n0.04            0.12  false\n0.03            0.09  false\n');

@@ -37,7 +37,7 @@ const COMMA = 0x2c;
 
 const adjustOptionsSchema = inputOptionsSchema.extend({
   methods: z
-    .array(z.string())
+    .array(z.string().transform((token) => token.toLowerCase()))
     .default(['bh'])
     .superRefine((tokens, context) => {
       const unknown = tokens.filter((token) => !findMethod(token));
