@@ -31,10 +31,7 @@ export function summarize(
 ): Summary {
   const rows: SummaryRow[] = [];
   result.outcomes.forEach((byMethod, f) => {
-    const family =
-      familyColumnNames.length === 0
-        ? null
-        : Object.fromEntries(familyColumnNames.map((name, k) => [name, familyValues[f]?.[k] ?? '']));
+    const family = familyColumnNames.length === 0 ? null : familyRecord(familyColumnNames, familyValues[f] ?? []);
     byMethod.forEach((outcome, k) => {
       rows.push({ family, method: (methods[k] as Method).token, ...outcome });
     });
@@ -42,10 +39,20 @@ export function summarize(
   return { alpha, rows };
 }
 
-function familyLabel(family: Record<string, string> | null): string {
+/** A family's defining values keyed by column name. */
+export function familyRecord(names: readonly string[], values: readonly string[]): Record<string, string> {
+  return Object.fromEntries(names.map((name, k) => [name, values[k] ?? '']));
+}
+
+/** Text that tells families apart: values with spaces at their ends, or empty, are quoted. */
+function shownValue(value: string): string {
+  return value === '' || value.trim() !== value || /[",=]/.test(value) ? JSON.stringify(value) : value;
+}
+
+export function familyLabel(family: Record<string, string> | null): string {
   if (family === null) return '(all rows)';
   return Object.entries(family)
-    .map(([name, value]) => `${name}=${value === '' ? '(empty)' : value}`)
+    .map(([name, value]) => `${name}=${shownValue(value)}`)
     .join(', ');
 }
 

@@ -3,18 +3,32 @@
 
 import { MISSING_MARKS } from './io/p-value-text.js';
 
-const missing = new Set(MISSING_MARKS);
+/** Cells that neither make a column text nor number: missing marks, and '-' for "none". */
+const neutral = new Set([...MISSING_MARKS, '-']);
 
 const NUMERIC = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
-/** Display width: code points, not UTF-16 units (wide East Asian characters count as one). */
+// Characters that take two columns in a terminal: East Asian wide and
+// full-width forms, and most emoji (Unicode Standard Annex #11, roughly).
+const WIDE = /[\u1100-\u115f\u2e80-\u303e\u3041-\u33ff\u3400-\u4dbf\u4e00-\u9fff\ua000-\ua4cf\uac00-\ud7a3\uf900-\ufaff\ufe30-\ufe4f\uff00-\uff60\uffe0-\uffe6\u{1f300}-\u{1f64f}\u{1f900}-\u{1f9ff}\u{20000}-\u{3fffd}]/u;
+// Zero-width: combining marks, joiners, the byte-order mark.
+const ZERO_WIDTH = /[\u0300-\u036f\u200b-\u200f\ufeff]/u;
+
+/** Columns a text takes in a terminal. */
 function width(text: string): number {
-  let count = 0;
-  for (const _ of text) count++;
-  return count;
+  let columns = 0;
+  for (const character of text) columns += ZERO_WIDTH.test(character) ? 0 : WIDE.test(character) ? 2 : 1;
+  return columns;
 }
 
-export function alignedTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
+/** A cell on one line: line breaks and tabs are shown as escapes rather than breaking the layout. */
+function oneLine(cell: string): string {
+  return /[\r\n\t]/.test(cell) ? cell.replace(/\r/g, '\\r').replace(/\n/g, '\\n').replace(/\t/g, '\\t') : cell;
+}
+
+export function alignedTable(rawHeader: readonly string[], rawRows: readonly (readonly string[])[]): string {
+  const header = rawHeader.map(oneLine);
+  const rows = rawRows.map((row) => row.map(oneLine));
   const columns = header.length;
   const widths = header.map(width);
   const numeric = header.map(() => true);
@@ -22,7 +36,7 @@ export function alignedTable(header: readonly string[], rows: readonly (readonly
     for (let k = 0; k < columns; k++) {
       const cell = row[k] ?? '';
       widths[k] = Math.max(widths[k] as number, width(cell));
-      if (!missing.has(cell) && !NUMERIC.test(cell)) numeric[k] = false;
+      if (!neutral.has(cell) && !NUMERIC.test(cell)) numeric[k] = false;
     }
   }
   const line = (cells: readonly string[]): string =>

@@ -1,9 +1,10 @@
 // famwise adjust end to end, through the built CLI.
-import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { chmodSync, existsSync, lstatSync, mkdtempSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { famwise } from './helpers/cli.js';
+import { CLI, famwise } from './helpers/cli.js';
 
 const work = mkdtempSync(join(tmpdir(), 'famwise-e2e-'));
 function file(name: string, content: string | Buffer): string {
@@ -70,9 +71,29 @@ describe('pipes and formats', () => {
     expect(run.stderr).toMatch(/note: the first line holds only numbers, so it is read as data/);
   });
 
-  it('reads a ;-separated table with decimal commas', () => {
+  it('reads decimal commas in tables not separated by commas, and writes the new numbers the same way', () => {
     const run = famwise(['adjust', '--quiet', '--methods', 'bonferroni'], 'id;p\na;0,01\nb;0,2\n');
-    expect(run.stdout).toBe('id;p;adj_bonferroni;rej_bonferroni\na;0,01;0.02;true\nb;0,2;0.4;false\n');
+    expect(run.stdout).toBe('id;p;adj_bonferroni;rej_bonferroni\na;0,01;0,02;true\nb;0,2;0,4;false\n');
+    const tab = famwise(['adjust', '--quiet', '--methods', 'bonferroni'], 'id\tp\na\t0,01\nb\t0,2\n');
+    expect(tab.stdout).toBe('id\tp\tadj_bonferroni\trej_bonferroni\na\t0,01\t0,02\ttrue\nb\t0,2\t0,4\tfalse\n');
+    expect(famwise(['adjust', '--quiet', '--methods', 'bonferroni'], 'id;p\na;0.01\nb;0.2\n').stdout).toBe('id;p;adj_bonferroni;rej_bonferroni\na;0.01;0.02;true\nb;0.2;0.4;false\n');
+  });
+
+  it('reads a file that can be read only once (a pipe given as FILE)', () => {
+    const run = spawnSync('sh', ['-c', `printf 'p\\n0.01\\n0.02\\n' | "${process.execPath}" "${CLI}" adjust /dev/stdin --quiet --methods bonferroni`], { encoding: 'utf8' });
+    expect(run.status).toBe(0);
+    expect(run.stdout).toBe('p,adj_bonferroni,rej_bonferroni\n0.01,0.02,true\n0.02,0.04,true\n');
+  });
+
+  it('still writes the summary when the reader of standard output stops early', () => {
+    const rows = Array.from({ length: 200_000 }, (_, i) => `r${i},${((i * 7919) % 100_000) / 100_000}`).join('\n');
+    const path = file('long.csv', `id,p\n${rows}\n`);
+    const summary = join(work, 'long-summary.json');
+    const run = spawnSync('sh', ['-c', `"${process.execPath}" "${CLI}" adjust "${path}" --summary "${summary}" | head -n 2`], { encoding: 'utf8' });
+    expect(run.stdout).toBe('id,p,adj_bh,rej_bh\nr0,0,0,true\n');
+    expect(run.stderr).toMatch(/\(all rows\)\s+bh\s+200000/);
+    expect(run.stderr).not.toMatch(/EPIPE|\n\s+at /);
+    expect(JSON.parse(readFileSync(summary, 'utf8')).rows[0].tested).toBe(200_000);
   });
 });
 
@@ -135,9 +156,21 @@ describe('errors name the place and the text, with the right status', () => {
     ['an empty input', ['adjust'], '', 1, /<stdin>: the input is empty/],
     ['an unknown p column', ['adjust', '--p-column', 'pv'], 'id,p\na,0.1\n', 2, /--p-column "pv": no such column; the columns are "id", "p"/],
     ['no p column', ['adjust'], 'id,score\na,0.1\n', 2, /no column is named like a p-value column.*--p-column/],
-    ['two p columns', ['adjust'], 'pval,p_value\n0.1,0.2\n', 2, /several columns could hold the raw p-values: "pval", "p_value"/],
+    ['two p columns', ['adjust'], 'pval,p_value\n0.1,0.2\n', 2, /several columns could hold the raw p-values: "pval" \(column 1\), "p_value" \(column 2\)/],
+    ['a p column in another case', ['adjust', '--p-column', 'pval'], 'id,PVAL\na,0.1\n', 2, /--p-column "pval": no such column; did you mean "PVAL"\?/],
+    ['a first line of data', ['adjust'], 'a\t0.01\n', 2, /the first line looks like data: if the table has no header, use --no-header with --p-column N/],
+    ['p-values on one line', ['adjust'], '0.01 0.04 0.03\n', 2, /p-values go one per line, or use --values/],
+    ['R row names', ['adjust'], 'fc\tpvalue\nG1\t1\t0.01\n', 1, /<stdin>:2: 3 fields where the header has 2 \(is the first column row names\?/],
+    ['a line of spaces', ['adjust'], 'id,p\na,0.1\n   \n', 1, /<stdin>:3: 1 field where the header has 2 \(a line holding only spaces\?\)/],
+    ['a family column named twice', ['adjust', '--family', 'g,1'], 'g,p\nx,0.1\n', 2, /--family: column 1 is named twice/],
+    ['two family columns of one name', ['adjust', '--family', '1,2'], 'g,g,p\nx,y,0.1\n', 2, /--family: columns 1 and 2 are both named "g"/],
+    ['an empty --values', ['adjust', '--values', ''], '', 2, /--values: needs at least one p-value/],
+    ['a summary over the input', ['adjust', 'in.csv', '--summary', 'in.csv'], '', 2, /--summary in\.csv: is the input table/],
+    ['a summary on standard output with the table', ['adjust', '--summary', '-'], 'p\n0.1\n', 2, /--summary -: standard output carries the table/],
+    ['an output that names a folder', ['adjust', '-o', 'somewhere/'], 'p\n0.1\n', 2, /--output somewhere\/: names a folder/],
+    ['no command', [], '', 2, /Usage: famwise/],
     ['an unknown family column', ['adjust', '--family', 'plate'], 'id,p\na,0.1\n', 2, /--family "plate": no such column/],
-    ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; the methods are bonferroni, holm, hochberg, bh, by/],
+    ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; did you mean bh\? the methods are bonferroni, holm, hochberg, bh, by/],
     ['alpha out of range', ['adjust', '--alpha', '1'], 'p\n0.1\n', 2, /--alpha "1": needs a level between 0 and 1/],
     ['alpha not a number', ['adjust', '--alpha', '5%'], 'p\n0.1\n', 2, /--alpha "5%"/],
     ['tests not a number', ['adjust', '--tests', 'many'], 'p\n0.1\n', 2, /--tests "many": needs a whole number/],
@@ -147,7 +180,7 @@ describe('errors name the place and the text, with the right status', () => {
     ['a headerless table of several columns', ['adjust', '--no-header'], 'a,0.1\n', 2, /no header and 2 columns.*--p-column N/],
     ['a bad delimiter', ['adjust', '--delimiter', 'x'], 'p\n0.1\n', 2, /--delimiter "x": accepts comma, tab, semicolon or pipe/],
     ['the same file for output and summary', ['adjust', '-o', 'x.csv', '--summary', 'x.csv'], 'p\n0.1\n', 2, /--summary x\.csv: is also the --output file/],
-    ['values and a file', ['adjust', 'x.csv', '--values', '0.1'], '', 2, /--values: give either p-values or a table, not both/],
+    ['values and a file', ['adjust', 'x.csv', '--values', '0.1'], '', 2, /--values takes one comma-separated list \(0\.01,0\.04,\.\.\.\); "x\.csv" was read as a table/],
   ];
   for (const [name, args, input, status, message] of cases) {
     it(name, () => {
@@ -158,6 +191,15 @@ describe('errors name the place and the text, with the right status', () => {
       expect(run.stdout).toBe('');
     });
   }
+
+  it('names the encodings it does not read', () => {
+    const gzip = famwise(['adjust'], Buffer.from([0x1f, 0x8b, 8, 0, 0, 0]));
+    expect(gzip.status).toBe(1);
+    expect(gzip.stderr).toMatch(/<stdin>: the file is gzip-compressed; decompress it first/);
+    const utf16 = famwise(['adjust'], Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from('p\n0.1\n', 'utf16le')]));
+    expect(utf16.status).toBe(1);
+    expect(utf16.stderr).toMatch(/<stdin>: the file is UTF-16 text .* convert it to UTF-8 first/);
+  });
 
   it('does not create -o FILE when the data are bad, and leaves no temporary file', () => {
     const folder = mkdtempSync(join(work, 'out-'));
@@ -178,6 +220,32 @@ describe('errors name the place and the text, with the right status', () => {
     const run = famwise(['adjust', '-o', join(work, 'nowhere', 'x.csv')], 'p\n0.1\n');
     expect(run.status).toBe(2);
     expect(run.stderr).toMatch(/--output .*the folder .*nowhere does not exist/);
+  });
+
+  it('writes through a symbolic link to its file, keeping the file\'s permissions', () => {
+    const real = file('real.csv', 'old\n');
+    chmodSync(real, 0o640);
+    const link = join(work, 'link.csv');
+    symlinkSync(real, link);
+    expect(famwise(['adjust', '-o', link, '--quiet', '--values', '0.2']).status).toBe(0);
+    expect(lstatSync(link).isSymbolicLink()).toBe(true);
+    expect(readFileSync(real, 'utf8')).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
+    expect(statSync(real).mode & 0o777).toBe(0o640);
+  });
+
+  it('takes - as standard output for -o, and for --summary when the table goes to a file', () => {
+    expect(famwise(['adjust', '-o', '-', '--quiet', '--values', '0.2']).stdout).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
+    const output = join(work, 'with-summary.csv');
+    const run = famwise(['adjust', '-o', output, '--summary', '-', '--quiet', '--values', '0.2']);
+    expect(JSON.parse(run.stdout).rows[0]).toMatchObject({ family: null, method: 'bh', tested: 1 });
+    expect(existsSync(join(work, '-'))).toBe(false);
+  });
+
+  it('counts empty --values items as missing, and says when there is nothing to adjust', () => {
+    const run = famwise(['adjust', '--values', '0.01,,0.02', '--methods', 'bonferroni']);
+    expect(run.stdout).toBe('p,adj_bonferroni,rej_bonferroni\n0.01,0.02,true\nNA,,\n0.02,0.04,true\n');
+    expect(run.stderr).toMatch(/\(all rows\)\s+bonferroni\s+2\s+1\s+2/);
+    expect(famwise(['adjust'], 'id,p\na,NA\n').stderr).toMatch(/note: the table holds no p-values to adjust/);
   });
 
   it('writes -o FILE and the summary when all is well', () => {

@@ -39,6 +39,13 @@ describe('sniffDelimiter', () => {
     expect(sniff('p\n0.1\n', 'tsv')).toBe('\t');
     expect(sniff('p\n0.1\n')).toBe(',');
   });
+
+  it('follows the file name when its delimiter occurs on the first line', () => {
+    expect(sniff('gene\tnote (a, b, c, d)\tp\n', 'tsv')).toBe('\t');
+    expect(sniff('gene\tnote (a, b, c, d)\tp\n', '')).toBe(',');
+    expect(sniff('a;b;c,d\n', 'csv')).toBe(',');
+    expect(sniff('a;b;c\n', 'csv')).toBe(';');
+  });
 });
 
 describe('sniffLoneCr', () => {

@@ -28,21 +28,32 @@ import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
-import { summarize, summaryText } from '../summary.js';
+import { familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
-import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions } from './options.js';
+import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
 const TAB = 0x09;
 const COMMA = 0x2c;
+
+/** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
+const LIKELY_MEANT: Readonly<Record<string, string>> = {
+  fdr: 'bh',
+  benjaminihochberg: 'bh',
+  benjaminiyekutieli: 'by',
+  bonf: 'bonferroni',
+  bonferoni: 'bonferroni',
+};
 
 const adjustOptionsSchema = inputOptionsSchema.extend({
   methods: z
     .array(z.string().transform((token) => token.toLowerCase()))
     .default(['bh'])
     .superRefine((tokens, context) => {
-      const unknown = tokens.filter((token) => !findMethod(token));
-      if (unknown.length > 0) {
-        context.addIssue({ code: 'custom', message: `unknown method ${quoteText(unknown[0] as string)}; the methods are ${METHOD_TOKENS.join(', ')}` });
+      const unknown = tokens.find((token) => !findMethod(token));
+      if (unknown !== undefined) {
+        const likely = LIKELY_MEANT[unknown.replace(/[^a-z]/g, '')];
+        const suggestion = likely ? `did you mean ${likely}? ` : '';
+        context.addIssue({ code: 'custom', message: `unknown method ${quoteText(unknown)}; ${suggestion}the methods are ${METHOD_TOKENS.join(', ')}` });
       }
       const repeated = tokens.find((token, i) => tokens.indexOf(token) !== i);
       if (repeated) context.addIssue({ code: 'custom', message: `${quoteText(repeated)} is given twice` });
@@ -52,7 +63,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
     .string()
     .default('0.05')
     .transform(Number)
-    .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05'),
+    .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05 (for 5%)'),
   tests: z
     .string()
     .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
@@ -64,7 +75,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
     .superRefine((items, context) => {
       const bad = items.findIndex((item) => readPValue(item) === 'invalid');
       if (bad >= 0) context.addIssue({ code: 'custom', message: `item ${bad + 1}, ${quoteText(items[bad] as string)}, is not a p-value (a number from 0 to 1, or NA)` });
-      if (items.length === 0) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
+      if (items.every((item) => item.trim() === '')) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
     })
     .optional(),
   output: z.string().min(1).optional(),
@@ -86,8 +97,8 @@ export function adjustCommand(): Command {
     .option('--alpha <level>', 'the error rate to control, between 0 and 1 (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
     .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
-    .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output')
-    .option('--summary <file>', 'also write the rejection summary to this file as JSON')
+    .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
+    .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
     .option('-q, --quiet', 'print no summary or notes on standard error')
@@ -100,11 +111,22 @@ export function adjustCommand(): Command {
 
 function valuesSource(options: AdjustOptions, file: string | undefined): InputSource | undefined {
   if (options.values === undefined) return undefined;
-  if (file !== undefined) throw new UsageError('--values: give either p-values or a table, not both');
+  if (file !== undefined) {
+    throw new UsageError(`--values takes one comma-separated list (0.01,0.04,...); ${quoteText(file)} was read as a table to adjust, so give one or the other`);
+  }
   if (options.family.length > 0 || options.pColumn !== undefined) {
     throw new UsageError('--values: --family and --p-column need a table; --values gives a single column of p-values');
   }
-  return bufferSource(Buffer.from(`p\n${options.values.join('\n')}\n`), '--values');
+  // Empty items are missing values; a blank line would not be a row at all.
+  const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
+  return bufferSource(Buffer.from(`p\n${lines.join('\n')}\n`), '--values');
+}
+
+/** An adjusted value as the shortest decimal that reads back to the same double. */
+function formatAdjusted(value: number, decimalComma: boolean): string {
+  if (Number.isNaN(value)) return '';
+  const text = String(value);
+  return decimalComma ? text.replace('.', ',') : text;
 }
 
 function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions): OutputColumn[] {
@@ -119,13 +141,13 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
   };
   const { alpha } = options;
   return methods.flatMap((method, k) => {
-    const values = adjusted[k] as Float64Array;
+    const values = adjusted[k];
     const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
     return [
       {
         name: adjustedName,
         replaces: existing(adjustedName),
-        cell: (row: number) => (Number.isNaN(values[row]) ? '' : String(values[row])),
+        cell: (row: number) => formatAdjusted(values[row], table.decimalComma),
       },
       {
         name: rejectedName,
@@ -136,8 +158,8 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
   });
 }
 
-function chooseFormat(options: AdjustOptions, table: Table): OutputFormat {
-  const format = options.format ?? (options.output === undefined && process.stdout.isTTY ? 'table' : undefined);
+function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean): OutputFormat {
+  const format = options.format ?? (toTerminal ? 'table' : undefined);
   if (format === 'table') {
     // Without a header, columns are known by position; the p-values by name.
     const { names, columnCount } = table.shape;
@@ -148,12 +170,29 @@ function chooseFormat(options: AdjustOptions, table: Table): OutputFormat {
   return { delimiter: table.shape.delimiter };
 }
 
-async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
-  if (options.output !== undefined) checkWritable(options.output, '--output');
-  if (options.summary !== undefined) checkWritable(options.summary, '--summary');
-  if (options.output !== undefined && options.output === options.summary) {
-    throw new UsageError(`--summary ${options.summary}: is also the --output file; give them different names`);
+/** Where the table and the summary go; '-' means standard output. */
+function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string } {
+  const table = options.output === '-' ? undefined : options.output;
+  const summary = options.summary;
+  if (table !== undefined) checkWritable(table, '--output');
+  if (summary === '-') {
+    if (table === undefined) throw new UsageError('--summary -: standard output carries the table; give the summary a file name, or send the table to a file with -o');
+    return { table, summary };
   }
+  if (summary !== undefined) {
+    checkWritable(summary, '--summary');
+    if (table !== undefined && samePath(table, summary)) {
+      throw new UsageError(`--summary ${summary}: is also the --output file; give them different names`);
+    }
+    if (file !== undefined && file !== '-' && samePath(file, summary)) {
+      throw new UsageError(`--summary ${summary}: is the input table; writing the summary there would replace it`);
+    }
+  }
+  return { table, summary };
+}
+
+async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
+  const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const source = fromValues ?? (await openInput(file));
   const table = await readTable(source, {
@@ -162,8 +201,13 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     pColumn: fromValues ? 'p' : options.pColumn,
     familyColumns: options.family,
   });
-  if (!options.quiet) {
-    for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice}\n`);
+  const typedAtTerminal = !fromValues && (file === undefined || file === '-') && process.stdin.isTTY === true;
+  const note = (text: string): void => {
+    if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
+  };
+  for (const notice of table.notices) {
+    // Pasting bare p-values at the terminal is what the prompt asked for.
+    if (!(notice.id === 'header-guessed' && typedAtTerminal)) note(notice.text);
   }
   const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
   const methods = options.methods;
@@ -174,22 +218,34 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   } catch (error) {
     if (!(error instanceof TooFewTestsError)) throw error;
     const values = table.familyValues[error.family] ?? [];
-    const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyColumnNames.map((name, k) => `${name}=${values[k]}`).join(', ')}`;
+    const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, values))}`;
     throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
   }
   const columns = outputColumns(table, methods, result.adjusted, options);
   const summary = summarize(result, methods, familyColumnNames, table.familyValues, options.alpha);
+  if (table.p.every(Number.isNaN)) note('the table holds no p-values to adjust');
 
   const files: AtomicFile[] = [];
+  const tableFile = targets.table === undefined ? undefined : createAtomicFile(targets.table);
+  if (tableFile) files.push(tableFile);
+  const toTerminal = tableFile === undefined && process.stdout.isTTY === true;
   try {
-    const outputFile = options.output === undefined ? undefined : createAtomicFile(options.output);
-    if (outputFile) files.push(outputFile);
-    const sink = new ByteSink(outputFile ? outputFile.stream : process.stdout);
-    await writeTable(source, table.shape, columns, chooseFormat(options, table), sink, table.p.length);
-    if (options.summary !== undefined) {
-      const summaryFile = createAtomicFile(options.summary);
+    const sink = new ByteSink(tableFile ? tableFile.stream : process.stdout);
+    await writeTable(source, table.shape, columns, chooseFormat(options, table, toTerminal), sink, table.p.length);
+  } catch (error) {
+    // A reader that stops early (famwise adjust big.csv | head) is not a failure.
+    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || tableFile) {
+      for (const unfinished of files) unfinished.abort();
+      throw error;
+    }
+  }
+  const summaryJson = `${JSON.stringify(summary, null, 2)}\n`;
+  try {
+    if (targets.summary === '-') process.stdout.write(summaryJson);
+    else if (targets.summary !== undefined) {
+      const summaryFile = createAtomicFile(targets.summary);
       files.push(summaryFile);
-      summaryFile.stream.write(`${JSON.stringify(summary, null, 2)}\n`);
+      summaryFile.stream.write(summaryJson);
     }
     for (const done of files) await done.commit();
   } catch (error) {

@@ -19,7 +19,7 @@ function program(): Command {
     .version(version, '--version', 'print the version')
     .helpOption('-h, --help', 'show help')
     .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
-    .showHelpAfterError('(see famwise --help)');
+    .showHelpAfterError('(see famwise --help; to adjust a table: famwise adjust FILE)');
   root.addCommand(adjustCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise adjust --help)'));
   // Commander's own usage errors (unknown option, missing value) read like ours and exit with the usage status.
   for (const command of [root, ...root.commands]) {
@@ -33,8 +33,8 @@ function program(): Command {
 function fail(error: unknown): never {
   removeUnfinishedFiles();
   if (error instanceof CommanderError) {
-    const helpOrVersion = ['commander.helpDisplayed', 'commander.help', 'commander.version'].includes(error.code);
-    process.exit(helpOrVersion ? EXIT.ok : EXIT.usageError);
+    // Asked-for help and the version exit 0; help shown for a missing command, and every usage error, do not.
+    process.exit(error.exitCode === 0 ? EXIT.ok : EXIT.usageError);
   }
   if (error instanceof FamwiseError) {
     process.stderr.write(`famwise: ${error.message}\n`);
@@ -47,10 +47,10 @@ function fail(error: unknown): never {
   process.exit(EXIT.dataError);
 }
 
-// A reader that stops early (famwise adjust big.csv | head) is not an error.
+// A reader that stops early (famwise adjust big.csv | head) is not an error:
+// the table writer notices and finishes the rest of the work quietly.
 process.stdout.on('error', (error: NodeJS.ErrnoException) => {
-  if (error.code === 'EPIPE') process.exit(EXIT.ok);
-  fail(error);
+  if (error.code !== 'EPIPE') fail(error);
 });
 // An interrupt or a cancelled CI job leaves no temporary files behind.
 for (const [signal, status] of [['SIGINT', 130], ['SIGTERM', 143]] as const) {

@@ -2,8 +2,8 @@
 // reads tables with, and the translation of zod's findings into one-line
 // usage errors that name the option.
 
-import { accessSync, constants, existsSync, statSync } from 'node:fs';
-import { dirname } from 'node:path';
+import { accessSync, constants, createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
@@ -71,12 +71,21 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
     return streamSource(process.stdin);
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
-  if (statSync(file).isDirectory()) throw new UsageError(`${file}: is a folder, not a table`);
-  return fileSource(file);
+  const stat = statSync(file);
+  if (stat.isDirectory()) throw new UsageError(`${file}: is a folder, not a table`);
+  // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it in memory.
+  return stat.isFile() ? fileSource(file) : streamSource(createReadStream(file), file);
+}
+
+/** Whether two paths name the same file (following links), whether or not it exists yet. */
+export function samePath(a: string, b: string): boolean {
+  const real = (path: string): string => (existsSync(path) ? realpathSync(path) : resolve(path));
+  return real(a) === real(b);
 }
 
 /** Fails early, before any reading, when an output file could not be written. */
 export function checkWritable(path: string, flag: string): void {
+  if (path.endsWith('/')) throw new UsageError(`${flag} ${path}: names a folder; give a file name`);
   const folder = dirname(path);
   if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new UsageError(`${flag} ${path}: the folder ${folder} does not exist`);
   if (existsSync(path) && statSync(path).isDirectory()) throw new UsageError(`${flag} ${path}: is a folder`);

@@ -1,8 +1,8 @@
 // Buffered output with back-pressure: pieces are gathered and written in
 // large blocks, waiting for 'drain' when the stream is full, so that memory
-// stays bounded however large the table.
+// stays bounded however large the table. A write error (such as EPIPE when
+// the reader of a pipe has gone) is raised from the next flush.
 
-import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 
 const FLUSH_SIZE = 1 << 20;
@@ -11,8 +11,13 @@ export class ByteSink {
   private pieces: Buffer[] = [];
   private text = '';
   private size = 0;
+  private failure: Error | undefined;
 
-  constructor(private readonly stream: Writable) {}
+  constructor(private readonly stream: Writable) {
+    stream.on('error', (error: Error) => {
+      this.failure ??= error;
+    });
+  }
 
   push(piece: Buffer | string): void {
     if (typeof piece === 'string') {
@@ -30,12 +35,25 @@ export class ByteSink {
 
   /** Writes what is gathered once it is large (or always, with force). */
   async flush(force = false): Promise<void> {
+    if (this.failure) throw this.failure;
     if (this.size === 0 || (!force && this.size < FLUSH_SIZE)) return;
     if (this.text) this.pieces.push(Buffer.from(this.text));
     const block = Buffer.concat(this.pieces);
     this.pieces = [];
     this.text = '';
     this.size = 0;
-    if (!this.stream.write(block)) await once(this.stream, 'drain');
+    if (this.stream.write(block)) return;
+    await new Promise<void>((resolve, reject) => {
+      const onDrain = (): void => {
+        this.stream.off('error', onError);
+        resolve();
+      };
+      const onError = (error: Error): void => {
+        this.stream.off('drain', onDrain);
+        reject(error);
+      };
+      this.stream.once('drain', onDrain);
+      this.stream.once('error', onError);
+    });
   }
 }

@@ -29,9 +29,11 @@ export const DELIMITERS: Readonly<Record<string, number>> = {
 const CANDIDATES = [TAB, 0x2c, 0x3b, 0x7c];
 
 /**
- * The delimiter that occurs most often, outside quotes, on the first line of
- * `head` (ties go to tab, then comma, semicolon, pipe). A one-column table has
- * none: then a .tsv or .tab file name means tab, anything else comma.
+ * The delimiter of the first line of `head`: the one the file name promises
+ * (.tsv or .tab: tab; .csv: comma) if it occurs there outside quotes, else
+ * the one that occurs most often (ties go to tab, then comma, semicolon,
+ * pipe). A one-column table has none: then .tsv or .tab means tab, anything
+ * else comma.
  */
 export function sniffDelimiter(head: Buffer, extension: string): number {
   const counts = new Map<number, number>(CANDIDATES.map((c) => [c, 0]));
@@ -42,6 +44,8 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
     else if (!inQuotes && (byte === LF || byte === CR)) break;
     else if (!inQuotes && counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
   }
+  const promised = extension === 'tsv' || extension === 'tab' ? TAB : extension === 'csv' ? 0x2c : -1;
+  if (promised >= 0 && (counts.get(promised) ?? 0) > 0) return promised;
   let best = -1;
   let bestCount = 0;
   for (const candidate of CANDIDATES) {

@@ -14,7 +14,7 @@ export type PValueText = number | 'missing' | 'invalid';
 /**
  * The p-value in a cell: a number in [0, 1], 'missing' for a missing-value
  * mark, or 'invalid'. Surrounding spaces are ignored. With decimalComma
- * (tables separated by ';'), "0,05" reads as 0.05.
+ * (tables not separated by commas), "0,05" reads as 0.05.
  */
 export function readPValue(text: string, decimalComma = false): PValueText {
   let trimmed = text.trim();
@@ -26,7 +26,7 @@ export function readPValue(text: string, decimalComma = false): PValueText {
 }
 
 /** Why a cell's text is not a p-value, for the error message. */
-export function whyNotPValue(text: string): string {
+export function whyNotPValue(text: string, decimalCommaAllowed = false): string {
   const trimmed = text.trim();
   const value = Number(trimmed.replace(',', '.'));
   if (/^<\s*\d/.test(trimmed)) {
@@ -34,8 +34,10 @@ export function whyNotPValue(text: string): string {
   }
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
   if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';
-  if (Number.isFinite(value) && trimmed !== '' && value < 0) return 'p-values cannot be negative';
+  if (Number.isFinite(value) && trimmed !== '' && (value < 0 || Object.is(value, -0))) return 'p-values cannot be negative';
   if (Number.isFinite(value) && trimmed !== '' && value > 1) return 'p-values cannot exceed 1 (is this column a statistic, or -log10 p?)';
-  if (/^\d*,\d+$/.test(trimmed)) return 'a decimal comma is read only in tables separated by ";" (use --delimiter ";")';
+  if (!decimalCommaAllowed && /^\d*,\d+$/.test(trimmed)) {
+    return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
+  }
   return `expected a number from 0 to 1 (like 0.05 or 5e-3) or a missing-value mark (${MISSING_MARKS.filter(Boolean).join(', ')}, or empty)`;
 }

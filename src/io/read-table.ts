@@ -38,8 +38,16 @@ export interface Table {
   readonly families: FamilyGrouping;
   /** familyValues[f] = the family columns' values that define family f. */
   readonly familyValues: readonly (readonly string[])[];
+  /** Whether the p-values were written with decimal commas (then new numbers should be too). */
+  readonly decimalComma: boolean;
   /** Things the user should know (how the header was decided, ...). */
-  readonly notices: readonly string[];
+  readonly notices: readonly Notice[];
+}
+
+/** Something the user should know about how the table was read; the id lets callers choose. */
+export interface Notice {
+  readonly id: 'header-guessed';
+  readonly text: string;
 }
 
 /** Header names, lower-cased with everything but letters and digits removed, that mean "raw p-value". */
@@ -48,6 +56,7 @@ const P_COLUMN_NAMES = new Set([
   'nominalp', 'pnominal', 'nominalpvalue', 'prt', 'prz', 'prf', 'prchisq',
 ]);
 
+const COMMA = 0x2c;
 const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 function normalizedName(name: string): string {
@@ -63,13 +72,27 @@ function listColumns(names: readonly string[]): string {
   return names.map((name) => quoteText(name, 40)).join(', ');
 }
 
+/** A column name that looks like a number: the first line may be data, not a header. */
+const LOOKS_LIKE_DATA = /^[\s\d.,eE+-]*\d[\s\d.,eE+-]*$/;
+
+function headerHint(names: readonly string[]): string {
+  if (!names.some((name) => LOOKS_LIKE_DATA.test(name))) return '';
+  return names.length === 1 && /\d\s+\d/.test(names[0] ?? '')
+    ? ' (p-values go one per line, or use --values 0.01,0.04,...)'
+    : ' (the first line looks like data: if the table has no header, use --no-header with --p-column N)';
+}
+
 /** The index of a column given by name or 1-based position; `option` names the option in messages. */
 export function resolveColumn(shape: TableShape, wanted: string, option: string): number {
-  if (shape.names) {
-    const matches = shape.names.flatMap((name, i) => (name === wanted ? [i] : []));
-    if (matches.length === 1) return matches[0];
-    if (matches.length > 1) {
-      throw new UsageError(`${option} ${quoteText(wanted)}: the header has ${matches.length} columns of that name (columns ${matches.map((i) => i + 1).join(', ')}); give the position instead`);
+  const names = shape.names;
+  if (names) {
+    // An exact name first; then the name without surrounding spaces.
+    for (const same of [(name: string) => name === wanted, (name: string) => name.trim() === wanted.trim()]) {
+      const matches = names.flatMap((name, i) => (same(name) ? [i] : []));
+      if (matches.length === 1) return matches[0];
+      if (matches.length > 1) {
+        throw new UsageError(`${option} ${quoteText(wanted)}: the header has ${matches.length} columns of that name (columns ${matches.map((i) => i + 1).join(', ')}); give the position instead`);
+      }
     }
   }
   if (/^\d+$/.test(wanted)) {
@@ -77,24 +100,40 @@ export function resolveColumn(shape: TableShape, wanted: string, option: string)
     if (index >= 0 && index < shape.columnCount) return index;
     throw new UsageError(`${option} ${wanted}: the table has columns 1 to ${shape.columnCount}`);
   }
-  if (!shape.names) {
+  if (!names) {
     throw new UsageError(`${option} ${quoteText(wanted)}: the table has no header, so give the column's position (1 to ${shape.columnCount})`);
   }
-  throw new UsageError(`${option} ${quoteText(wanted)}: no such column; the columns are ${listColumns(shape.names)}`);
+  const sameLetters = names.filter((name) => name.trim().toLowerCase() === wanted.trim().toLowerCase());
+  const suggestion = sameLetters.length === 1 ? `did you mean ${quoteText(sameLetters[0] ?? '')}? ` : '';
+  throw new UsageError(`${option} ${quoteText(wanted)}: no such column; ${suggestion}the columns are ${listColumns(names)}${headerHint(names)}`);
 }
 
 function findPColumn(shape: TableShape): number {
-  if (!shape.names) {
+  const names = shape.names;
+  if (!names) {
     if (shape.columnCount === 1) return 0;
     throw new UsageError(`the table has no header and ${shape.columnCount} columns: say which holds the p-values with --p-column N`);
   }
-  const candidates = shape.names.flatMap((name, i) => (P_COLUMN_NAMES.has(normalizedName(name)) ? [i] : []));
+  const candidates = names.flatMap((name, i) => (P_COLUMN_NAMES.has(normalizedName(name)) ? [i] : []));
   if (candidates.length === 1) return candidates[0];
   if (candidates.length === 0) {
-    throw new UsageError(`no column is named like a p-value column (p, pvalue, p_value, pval, ...); name it with --p-column; the columns are ${listColumns(shape.names)}`);
+    throw new UsageError(`no column is named like a p-value column (p, pvalue, p_value, pval, ...); name it with --p-column; the columns are ${listColumns(names)}${headerHint(names)}`);
   }
-  const names = candidates.map((i) => shape.names?.[i] as string);
-  throw new UsageError(`several columns could hold the raw p-values: ${listColumns(names)}; choose one with --p-column`);
+  const listed = candidates.map((i) => `${quoteText(names[i] ?? '')} (column ${i + 1})`).join(', ');
+  throw new UsageError(`several columns could hold the raw p-values: ${listed}; choose one with --p-column`);
+}
+
+/** Family columns must be distinct, and distinctly named, to label the families. */
+function checkFamilyColumns(shape: TableShape, columns: readonly number[]): void {
+  columns.forEach((column, k) => {
+    const earlier = columns.indexOf(column);
+    if (earlier < k) throw new UsageError(`--family: column ${column + 1} is named twice`);
+    const name = shape.names?.[column];
+    const twin = columns.find((other) => other !== column && name !== undefined && shape.names?.[other] === name);
+    if (twin !== undefined) {
+      throw new UsageError(`--family: columns ${Math.min(column, twin) + 1} and ${Math.max(column, twin) + 1} are both named ${quoteText(name ?? '')}, so their families could not be told apart in the summary; rename one`);
+    }
+  });
 }
 
 function allNumbers(view: RecordView): boolean {
@@ -102,13 +141,37 @@ function allNumbers(view: RecordView): boolean {
   return true;
 }
 
+/** Encodings and compressions that famwise does not read, recognised by their first bytes. */
+function refuseUnreadable(head: Buffer, name: string): void {
+  if (head[0] === 0x1f && head[1] === 0x8b) {
+    throw new DataError(`${name}: the file is gzip-compressed; decompress it first, e.g. zcat ${name} | famwise adjust`);
+  }
+  if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) {
+    throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f UTF-16 -t UTF-8 ${name}`);
+  }
+}
+
+function fieldCountMessage(view: RecordView, table: TableShape, firstRow: boolean): string {
+  const fields = `${view.fieldCount} field${view.fieldCount === 1 ? '' : 's'}`;
+  const what = table.names ? 'the header has' : 'the first line has';
+  let hint = '(a stray delimiter or quote?)';
+  if (view.fieldCount === 1 && fieldText(view, 0).trim() === '') hint = '(a line holding only spaces?)';
+  else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
+    hint = '(is the first column row names? A table written by R with row names has one field fewer in its header: write it with row.names = FALSE, or col.names = NA)';
+  }
+  return `${fields} where ${what} ${table.columnCount} ${hint}`;
+}
+
 /** Reads the p-values and families of a table (the first pass). */
 export async function readTable(source: InputSource, options: ReadOptions): Promise<Table> {
   const head = await peek(source, 1 << 16);
+  refuseUnreadable(head, source.name);
   const delimiter = options.delimiter ?? sniffDelimiter(head, source.extension);
   const loneCrEndsLine = sniffLoneCr(head);
-  const decimalComma = delimiter === 0x3b;
-  const notices: string[] = [];
+  // In a table not separated by commas, "0,05" can only be a decimal comma.
+  const decimalCommaAllowed = delimiter !== COMMA;
+  let decimalCommaSeen = false;
+  const notices: Notice[] = [];
   const p = new GrowableFloat64();
   const familyIds = new GrowableInt32();
   const familyIndex = new Map<string, number>();
@@ -120,25 +183,26 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const start = (view: RecordView): boolean => {
     const header = options.header ?? !allNumbers(view);
     if (options.header === undefined && !header) {
-      notices.push('the first line holds only numbers, so it is read as data, not as a header (say --header if it is one)');
+      notices.push({ id: 'header-guessed', text: 'the first line holds only numbers, so it is read as data, not as a header (say --header if it is one)' });
     }
     const names = header ? Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)) : null;
     shape = { delimiter, loneCrEndsLine, names, columnCount: view.fieldCount };
     pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
+    checkFamilyColumns(shape, familyColumns);
     return header;
   };
 
   const readRow = (view: RecordView, table: TableShape): void => {
     if (view.fieldCount !== table.columnCount) {
-      const what = table.names ? 'the header has' : 'the first line has';
-      throw new DataError(`${source.name}:${view.line}: ${view.fieldCount} fields where ${what} ${table.columnCount} (a stray delimiter or quote?)`);
+      throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
     }
     const text = fieldText(view, pColumn);
-    const value = readPValue(text, decimalComma);
+    const value = readPValue(text, decimalCommaAllowed);
     if (value === 'invalid') {
-      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text)}`);
+      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
     }
+    if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
     p.push(value === 'missing' ? NaN : value);
     if (familyColumns.length === 0) {
       familyIds.push(0);
@@ -175,6 +239,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     p: p.toArray(),
     families: { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
+    decimalComma: decimalCommaSeen,
     notices,
   };
 }
