@@ -79,6 +79,41 @@ describe('pipes and formats', () => {
     expect(famwise(['adjust', '--quiet', '--methods', 'bonferroni'], 'id;p\na;0.01\nb;0.2\n').stdout).toBe('id;p;adj_bonferroni;rej_bonferroni\na;0.01;0.02;true\nb;0.2;0.4;false\n');
   });
 
+  it('keeps family values apart that differ only in bytes that are not valid UTF-8', () => {
+    const input = Buffer.concat([Buffer.from('site,p\nM'), Buffer.from([0xfc]), Buffer.from('nchen,0.01\nM'), Buffer.from([0xe4]), Buffer.from('nchen,0.02\n')]);
+    const run = famwise(['adjust', '--family', 'site', '--methods', 'bonferroni', '--quiet'], input);
+    // Two families of one test each: nothing to multiply.
+    expect(run.stdoutBytes.toString('latin1')).toBe('site,p,adj_bonferroni,rej_bonferroni\nM\xfcnchen,0.01,0.01,true\nM\xe4nchen,0.02,0.02,true\n');
+  });
+
+  it('converts between CSV and TSV without touching bytes that are not valid UTF-8, and without decimal commas in CSV', () => {
+    const input = Buffer.concat([Buffer.from('name;p\ncaf'), Buffer.from([0xe9]), Buffer.from(';0,01\n"a;b";0,2\n')]);
+    const run = famwise(['adjust', '--format', 'csv', '--methods', 'bonferroni', '--quiet'], input);
+    expect(run.stdoutBytes.equals(Buffer.concat([Buffer.from('name,p,adj_bonferroni,rej_bonferroni\ncaf'), Buffer.from([0xe9]), Buffer.from(',"0,01",0.02,true\na;b,"0,2",0.4,false\n')]))).toBe(true);
+  });
+
+  it('reads a headerless list whose first value is missing', () => {
+    const run = famwise(['adjust', '--methods', 'bonferroni', '--quiet'], 'NA\n0.01\n0.02\n');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toBe('NA,,\n0.01,0.02,true\n0.02,0.04,true\n');
+  });
+
+  it('reads a table larger than its 1 MiB reading blocks, with records across block edges', () => {
+    const rows: string[] = [];
+    for (let i = 0; i < 60_000; i++) rows.push(`"id ${i}\nsecond line, with comma",${(i % 1000) / 1000}`);
+    const input = `name,p\n${rows.join('\r\n')}\r\n`;
+    const run = famwise(['adjust', '--methods', 'bonferroni', '--tests', '60000', '--quiet'], input);
+    expect(run.status).toBe(0);
+    const expected = `name,p,adj_bonferroni,rej_bonferroni\n${rows
+      .map((row, i) => {
+        const adjusted = Math.min(1, 60_000 * ((i % 1000) / 1000));
+        return `${row},${adjusted},${adjusted <= 0.05}`;
+      })
+      .join('\r\n')}\r\n`;
+    expect(Buffer.byteLength(input)).toBeGreaterThan(2 << 20);
+    expect(run.stdout).toBe(expected);
+  });
+
   it('reads a file that can be read only once (a pipe given as FILE)', () => {
     const run = spawnSync('sh', ['-c', `printf 'p\\n0.01\\n0.02\\n' | "${process.execPath}" "${CLI}" adjust /dev/stdin --quiet --methods bonferroni`], { encoding: 'utf8' });
     expect(run.status).toBe(0);
@@ -169,6 +204,8 @@ describe('errors name the place and the text, with the right status', () => {
     ['a summary on standard output with the table', ['adjust', '--summary', '-'], 'p\n0.1\n', 2, /--summary -: standard output carries the table/],
     ['an output that names a folder', ['adjust', '-o', 'somewhere/'], 'p\n0.1\n', 2, /--output somewhere\/: names a folder/],
     ['no command', [], '', 2, /Usage: famwise/],
+    ['an absurd --tests', ['adjust', '--tests', '9'.repeat(400)], 'p\n0.1\n', 2, /--tests .*needs a whole number from 1 to 9007199254740991/],
+    ['a file name too long', ['adjust', '-o', `${'a'.repeat(260)}.csv`], 'p\n0.1\n', 2, /--output: the file name is longer than 255 bytes/],
     ['an unknown family column', ['adjust', '--family', 'plate'], 'id,p\na,0.1\n', 2, /--family "plate": no such column/],
     ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; did you mean bh\? the methods are bonferroni, holm, hochberg, bh, by/],
     ['alpha out of range', ['adjust', '--alpha', '1'], 'p\n0.1\n', 2, /--alpha "1": needs a level between 0 and 1/],
@@ -231,6 +268,20 @@ describe('errors name the place and the text, with the right status', () => {
     expect(lstatSync(link).isSymbolicLink()).toBe(true);
     expect(readFileSync(real, 'utf8')).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
     expect(statSync(real).mode & 0o777).toBe(0o640);
+  });
+
+  it('appends to what /dev/stdout stands for, rather than replacing it', () => {
+    const log = file('log.txt', 'earlier\n');
+    const run = spawnSync('sh', ['-c', `"${process.execPath}" "${CLI}" adjust --values 0.2 -o /dev/stdout --quiet >> "${log}"`], { encoding: 'utf8' });
+    expect(run.status).toBe(0);
+    expect(readFileSync(log, 'utf8')).toBe('earlier\np,adj_bh,rej_bh\n0.2,0.2,false\n');
+  });
+
+  it('reports a full disk cleanly', () => {
+    const run = famwise(['adjust', '--values', '0.2', '-o', '/dev/full']);
+    expect(run.status).toBe(1);
+    expect(run.stderr).toMatch(/^famwise: ENOSPC/);
+    expect(run.stderr).not.toMatch(/\n\s+at /);
   });
 
   it('takes - as standard output for -o, and for --summary when the table goes to a file', () => {

@@ -85,11 +85,29 @@ describe('relations between procedures', () => {
   const bh = findMethod('bh');
   const by = findMethod('by');
 
-  it('BY equals BH times the harmonic sum c(m), capped at 1, to the last bit', () => {
-    for (const p of vectors) {
-      const c = harmonicSum(p.length);
-      const viaBH = bh?.adjust(p, p.length).map((value) => Math.min(1, c * value));
-      expect(by?.adjust(p, p.length)).toEqual(viaBH);
+  it('match their textbook definitions, computed the slow way on small vectors', () => {
+    // Definitions as stated in the sources (common practice): with p(1) <= ... <= p(m),
+    // Holm: max over j <= i of (m - j + 1) p(j); Hochberg: min over j >= i of (m - j + 1) p(j);
+    // BH: min over j >= i of m p(j) / j; BY: BH with c(m) = sum 1/k; all capped at 1.
+    for (const p of vectors.filter((vector) => vector.length <= 40)) {
+      const m = p.length + 3;
+      const sorted = Array.from(p).sort((a, b) => a - b);
+      const c = Array.from({ length: m }, (_, k) => 1 / (k + 1)).reduce((sum, term) => sum + term, 0);
+      const rank = (value: number): number => sorted.indexOf(value);
+      const slow: Record<string, (value: number) => number> = {
+        bonferroni: (value) => Math.min(1, m * value),
+        holm: (value) => Math.min(1, Math.max(...sorted.slice(0, rank(value) + 1).map((q, j) => (m - j) * q))),
+        hochberg: (value) => Math.min(1, ...sorted.map((q, j) => (m - j) * q).slice(rank(value))),
+        bh: (value) => Math.min(1, ...sorted.map((q, j) => (m * q) / (j + 1)).slice(rank(value))),
+        by: (value) => Math.min(1, ...sorted.map((q, j) => (c * m * q) / (j + 1)).slice(rank(value))),
+      };
+      for (const method of METHODS) {
+        const fast = method.adjust(p, m);
+        p.forEach((value, i) => {
+          const expected = slow[method.token]?.(value) as number;
+          expect(Math.abs((fast[i] as number) - expected)).toBeLessThanOrEqual(1e-14 * Math.max(expected, 1e-300));
+        });
+      }
     }
   });
 
@@ -104,11 +122,18 @@ describe('relations between procedures', () => {
     }
   });
 
-  it('the harmonic sum is exact for small m and near ln m + 0.5772 for large m', () => {
+  it('the harmonic sum is exact for small m, and its expansion for large m agrees with summing', () => {
     expect(harmonicSum(1)).toBe(1);
     expect(harmonicSum(4)).toBeCloseTo(25 / 12, 15);
-    const m = 10_000_000;
-    // Euler-Maclaurin: ln m + gamma + 1/(2m) - 1/(12 m^2) (common practice).
-    expect(harmonicSum(m)).toBeCloseTo(Math.log(m) + 0.5772156649015329 + 1 / (2 * m), 12);
+    const summed = (m: number): number => {
+      let sum = 0;
+      for (let i = m; i >= 1; i--) sum += 1 / i;
+      return sum;
+    };
+    for (const m of [99_999, 100_000, 100_001, 250_000, 3_000_000]) {
+      expect(Math.abs(harmonicSum(m) - summed(m)) / summed(m)).toBeLessThan(1e-14);
+    }
+    // Fast however large m is (for --tests up to 2^53).
+    expect(harmonicSum(2 ** 53 - 1)).toBeCloseTo(Math.log(2 ** 53) + 0.5772156649015329, 12);
   });
 });

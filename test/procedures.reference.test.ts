@@ -17,11 +17,11 @@ const reference = JSON.parse(readFileSync(new URL('../fixtures/reference/p-adjus
   cases: ReferenceCase[];
 };
 
-function expectClose(actual: number, expected: number, where: string): void {
+function expectClose(actual: number | undefined, expected: number | null | undefined, where: string): void {
+  if (typeof actual !== 'number' || typeof expected !== 'number') expect.fail(`${where}: got ${actual}, R gives ${expected}`);
   const scale = Math.max(Math.abs(expected), Number.MIN_VALUE);
-  if (Math.abs(actual - expected) / scale > 1e-12) {
-    expect.fail(`${where}: got ${actual}, R gives ${expected}`);
-  }
+  // Written so that NaN fails too.
+  if (!(Math.abs(actual - expected) / scale <= 1e-12)) expect.fail(`${where}: got ${actual}, R gives ${expected}`);
 }
 
 describe('agreement with R stats::p.adjust to 1e-12 relative', () => {
@@ -36,8 +36,9 @@ describe('agreement with R stats::p.adjust to 1e-12 relative', () => {
         const p = Float64Array.from(present, (i) => referenceCase.p[i] as number);
         const adjusted = method.adjust(p, referenceCase.n ?? p.length);
         const expected = referenceCase.adjusted[method.token];
-        expect(expected).toBeDefined();
-        present.forEach((row, k) => expectClose(adjusted[k] as number, expected?.[row] as number, `row ${row}`));
+        expect(expected).toHaveLength(referenceCase.p.length);
+        expect(adjusted).toHaveLength(present.length);
+        present.forEach((row, k) => expectClose(adjusted[k], expected?.[row], `row ${row}`));
         // R leaves missing p-values missing.
         referenceCase.p.forEach((value, row) => {
           if (value === null) expect(expected?.[row]).toBeNull();

@@ -68,7 +68,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
     .string()
     .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
     .transform(Number)
-    .refine((tests) => tests >= 1, 'needs at least 1 test')
+    .refine((tests) => tests >= 1 && Number.isSafeInteger(tests), 'needs a whole number from 1 to 9007199254740991')
     .optional(),
   values: z
     .array(z.string())
@@ -129,7 +129,7 @@ function formatAdjusted(value: number, decimalComma: boolean): string {
   return decimalComma ? text.replace('.', ',') : text;
 }
 
-function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions): OutputColumn[] {
+function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions, decimalComma: boolean): OutputColumn[] {
   const names = table.shape.names ?? [];
   const existing = (name: string): number | undefined => {
     const index = names.indexOf(name);
@@ -147,7 +147,7 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
       {
         name: adjustedName,
         replaces: existing(adjustedName),
-        cell: (row: number) => formatAdjusted(values[row], table.decimalComma),
+        cell: (row: number) => formatAdjusted(values[row], decimalComma),
       },
       {
         name: rejectedName,
@@ -221,17 +221,20 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, values))}`;
     throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
   }
-  const columns = outputColumns(table, methods, result.adjusted, options);
   const summary = summarize(result, methods, familyColumnNames, table.familyValues, options.alpha);
   if (table.p.every(Number.isNaN)) note('the table holds no p-values to adjust');
+
+  const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
+  // Decimal commas in, decimal commas out; but never in comma-separated output.
+  const decimalComma = table.decimalComma && !('delimiter' in format && format.delimiter === COMMA);
+  const columns = outputColumns(table, methods, result.adjusted, options, decimalComma);
 
   const files: AtomicFile[] = [];
   const tableFile = targets.table === undefined ? undefined : createAtomicFile(targets.table);
   if (tableFile) files.push(tableFile);
-  const toTerminal = tableFile === undefined && process.stdout.isTTY === true;
   try {
     const sink = new ByteSink(tableFile ? tableFile.stream : process.stdout);
-    await writeTable(source, table.shape, columns, chooseFormat(options, table, toTerminal), sink, table.p.length);
+    await writeTable(source, table.shape, columns, format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure.
     if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || tableFile) {

@@ -3,7 +3,7 @@
 // usage errors that name the option.
 
 import { accessSync, constants, createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { basename, dirname, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
@@ -86,6 +86,7 @@ export function samePath(a: string, b: string): boolean {
 /** Fails early, before any reading, when an output file could not be written. */
 export function checkWritable(path: string, flag: string): void {
   if (path.endsWith('/')) throw new UsageError(`${flag} ${path}: names a folder; give a file name`);
+  if (Buffer.byteLength(basename(path)) > 255) throw new UsageError(`${flag}: the file name is longer than 255 bytes`);
   const folder = dirname(path);
   if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new UsageError(`${flag} ${path}: the folder ${folder} does not exist`);
   if (existsSync(path) && statSync(path).isDirectory()) throw new UsageError(`${flag} ${path}: is a folder`);

@@ -3,12 +3,14 @@
 // run never leaves a half-written file and never changes an existing one.
 // A symbolic link is followed (the file it points to is replaced, the link
 // stays), and an existing file keeps its permission bits. Targets that are
-// not regular files (/dev/stdout, a named pipe) cannot be replaced by a
-// rename, so they are written directly.
+// not regular files (a named pipe, a terminal), and anything under /dev or
+// /proc (/dev/stdout may stand for a file the shell opened for appending),
+// cannot be replaced by a rename, so they are written directly.
 
 import { randomBytes } from 'node:crypto';
-import { chmodSync, createWriteStream, existsSync, realpathSync, renameSync, rmSync, statSync, type WriteStream } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { chmodSync, createWriteStream, existsSync, openSync, realpathSync, renameSync, rmSync, statSync, type WriteStream } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { UsageError } from '../errors.js';
 
 const unfinished = new Set<string>();
 
@@ -32,24 +34,43 @@ function closed(stream: WriteStream, failure: () => Error | undefined): Promise<
   });
 }
 
+function removeQuietly(path: string): void {
+  try {
+    rmSync(path, { force: true });
+  } catch {
+    // Nothing more can be done about a file that cannot be removed.
+  }
+}
+
+/** Opens a file for writing now, so that a bad name fails at once with a clear message. */
+function openForWriting(path: string, flags: string, shownAs: string): number {
+  try {
+    return openSync(path, flags);
+  } catch (error) {
+    throw new UsageError(`${shownAs}: cannot be written (${(error as Error).message})`);
+  }
+}
+
 export function createAtomicFile(path: string): AtomicFile {
-  const target = existsSync(path) ? realpathSync(path) : path;
-  const existing = existsSync(target) ? statSync(target) : undefined;
   let failure: Error | undefined;
   // Errors surface through commit(); keep an unhandled 'error' from crashing the process.
   const remember = (error: Error): void => {
     failure ??= error;
   };
+  const special = /^\/(dev|proc)\//.test(resolve(path));
+  const target = !special && existsSync(path) ? realpathSync(path) : path;
+  const existing = existsSync(target) ? statSync(target) : undefined;
 
-  if (existing && !existing.isFile()) {
-    const stream = createWriteStream(target, { flags: 'a' });
+  if (special || (existing && !existing.isFile())) {
+    const stream = createWriteStream('', { fd: openForWriting(target, 'a', path) });
     stream.on('error', remember);
     return { stream, commit: () => closed(stream, () => failure), abort: () => stream.destroy() };
   }
 
-  const temporary = join(dirname(target), `.${basename(target)}.${process.pid}-${randomBytes(4).toString('hex')}.famwise-tmp`);
+  const temporary = join(dirname(target), `.famwise-${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
+  const fd = openForWriting(temporary, 'wx', path);
   unfinished.add(temporary);
-  const stream = createWriteStream(temporary, { flags: 'wx' });
+  const stream = createWriteStream('', { fd });
   stream.on('error', remember);
   return {
     stream,
@@ -61,7 +82,7 @@ export function createAtomicFile(path: string): AtomicFile {
     },
     abort() {
       stream.destroy();
-      rmSync(temporary, { force: true });
+      removeQuietly(temporary);
       unfinished.delete(temporary);
     },
   };
@@ -69,6 +90,6 @@ export function createAtomicFile(path: string): AtomicFile {
 
 /** Removes every temporary file not yet committed (on an interrupt). */
 export function removeUnfinishedFiles(): void {
-  for (const temporary of unfinished) rmSync(temporary, { force: true });
+  for (const temporary of unfinished) removeQuietly(temporary);
   unfinished.clear();
 }

@@ -36,16 +36,30 @@ export interface RecordView {
   next: number;
 }
 
-/** The text of field k: quotes removed and "" unescaped for a quoted field. */
-export function fieldText(view: RecordView, k: number): string {
+/**
+ * The text of field k: quotes removed and "" unescaped for a quoted field.
+ * Decoded as UTF-8, or as latin1 to get one character per byte (a key that
+ * keeps bytes that are not valid UTF-8 apart).
+ */
+export function fieldText(view: RecordView, k: number, encoding: 'utf8' | 'latin1' = 'utf8'): string {
   const start = view.starts[k];
   const end = view.ends[k];
   const { buf } = view;
   if (end > start && buf[start] === QUOTE) {
-    const inner = buf.toString('utf8', start + 1, end - 1);
+    const inner = buf.toString(encoding, start + 1, end - 1);
     return inner.includes('"') ? inner.replaceAll('""', '"') : inner;
   }
-  return buf.toString('utf8', start, end);
+  return buf.toString(encoding, start, end);
+}
+
+/** The bytes of field k as they would be written in a field of their own: quotes removed, "" unescaped. */
+export function fieldBytes(view: RecordView, k: number): Buffer {
+  const start = view.starts[k];
+  const end = view.ends[k];
+  const { buf } = view;
+  if (!(end > start && buf[start] === QUOTE)) return buf.subarray(start, end);
+  const inner = buf.subarray(start + 1, end - 1);
+  return inner.includes(QUOTE) ? Buffer.from(inner.toString('latin1').replaceAll('""', '"'), 'latin1') : inner;
 }
 
 /** Whether field k is quoted in the input. */

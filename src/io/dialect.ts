@@ -10,6 +10,7 @@ export interface Dialect {
 
 const TAB = 0x09;
 const QUOTE = 0x22;
+const CANDIDATES = [TAB, 0x2c, 0x3b, 0x7c];
 const LF = 0x0a;
 const CR = 0x0d;
 
@@ -26,7 +27,6 @@ export const DELIMITERS: Readonly<Record<string, number>> = {
   pipe: 0x7c,
 };
 
-const CANDIDATES = [TAB, 0x2c, 0x3b, 0x7c];
 
 /**
  * The delimiter of the first line of `head`: the one the file name promises
@@ -40,7 +40,7 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
   let inQuotes = false;
   for (let i = 0; i < head.length; i++) {
     const byte = head[i];
-    if (byte === QUOTE) inQuotes = !inQuotes;
+    if (byte === QUOTE) inQuotes = opensOrClosesQuote(head, i, inQuotes) ? !inQuotes : inQuotes;
     else if (!inQuotes && (byte === LF || byte === CR)) break;
     else if (!inQuotes && counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
   }
@@ -59,12 +59,23 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
   return extension === 'tsv' || extension === 'tab' ? TAB : 0x2c;
 }
 
+/**
+ * Whether the quote at head[i] starts or ends quoting: inside quotes every
+ * quote does ("" toggles twice); outside, only one at the start of a field,
+ * as the scanner reads it (a quote inside a field, as in 5" tall, is text).
+ */
+function opensOrClosesQuote(head: Buffer, i: number, inQuotes: boolean): boolean {
+  if (inQuotes) return true;
+  const before = i === 0 ? -1 : head[i - 1];
+  return before === -1 || before === LF || before === CR || CANDIDATES.includes(before);
+}
+
 /** Whether the first line break outside quotes is a lone CR. */
 export function sniffLoneCr(head: Buffer): boolean {
   let inQuotes = false;
   for (let i = 0; i < head.length; i++) {
     const byte = head[i];
-    if (byte === QUOTE) inQuotes = !inQuotes;
+    if (byte === QUOTE) inQuotes = opensOrClosesQuote(head, i, inQuotes) ? !inQuotes : inQuotes;
     else if (!inQuotes && byte === LF) return false;
     else if (!inQuotes && byte === CR) return i + 1 < head.length && head[i + 1] !== LF;
   }

@@ -7,7 +7,7 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { GrowableFloat64, GrowableInt32 } from './growable.js';
-import { readPValue, whyNotPValue } from './p-value-text.js';
+import { MISSING_MARKS, readPValue, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -136,8 +136,12 @@ function checkFamilyColumns(shape: TableShape, columns: readonly number[]): void
   });
 }
 
+/** Whether every field is a number or a missing-value mark (so the line is data, not names). */
 function allNumbers(view: RecordView): boolean {
-  for (let k = 0; k < view.fieldCount; k++) if (!NUMBER.test(fieldText(view, k).trim())) return false;
+  for (let k = 0; k < view.fieldCount; k++) {
+    const text = fieldText(view, k).trim();
+    if (!NUMBER.test(text) && !(text !== '' && MISSING_MARKS.includes(text))) return false;
+  }
   return true;
 }
 
@@ -208,13 +212,15 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       familyIds.push(0);
       return;
     }
-    const values = familyColumns.map((column) => fieldText(view, column));
-    const key = values.length === 1 ? (values[0]) : JSON.stringify(values);
+    // Keyed on the bytes, so that values differing only in bytes that are not
+    // valid UTF-8 stay apart; decoded as UTF-8 only to show them.
+    const bytes = familyColumns.map((column) => fieldText(view, column, 'latin1'));
+    const key = bytes.length === 1 ? bytes[0] : JSON.stringify(bytes);
     let id = familyIndex.get(key);
     if (id === undefined) {
       id = familyValues.length;
       familyIndex.set(key, id);
-      familyValues.push(values);
+      familyValues.push(familyColumns.map((column) => fieldText(view, column)));
     }
     familyIds.push(id);
   };

@@ -44,7 +44,10 @@ export async function scanInput(source: InputSource, dialect: Dialect, handlers:
   for await (const chunk of source.chunks()) {
     pending.push(chunk);
     pendingSize += chunk.length;
-    if (pendingSize >= BLOCK_SIZE) await scanBlock(false);
+    // A record longer than a block (or a quote never closed) is rescanned
+    // only when the new input is as large as the carry, which keeps the
+    // total work linear rather than quadratic.
+    if (pendingSize >= Math.max(BLOCK_SIZE, carry.length)) await scanBlock(false);
   }
   await scanBlock(true);
   if (handlers.trailing && carry.length > 0) handlers.trailing(carry, 0);

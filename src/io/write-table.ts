@@ -6,7 +6,7 @@
 import { DataError } from '../errors.js';
 import { alignedTable } from '../text-table.js';
 import type { ByteSink } from './byte-sink.js';
-import { type RecordView, fieldText } from './csv-scan.js';
+import { type RecordView, fieldBytes, fieldText } from './csv-scan.js';
 import type { TableShape } from './read-table.js';
 import { scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
@@ -27,8 +27,15 @@ function needsQuotes(text: string, delimiter: string): boolean {
   return text.includes(delimiter) || text.includes('"') || text.includes('\n') || text.includes('\r');
 }
 
+/** A cell's text, quoted if the delimiter, a quote or a line break is in it. */
 function quoted(text: string, delimiter: string): string {
   return needsQuotes(text, delimiter) ? `"${text.replaceAll('"', '""')}"` : text;
+}
+
+/** The same for a field's bytes, so that bytes that are not valid UTF-8 pass unchanged. */
+function quotedBytes(bytes: Buffer, delimiter: string): Buffer | string {
+  const latin1 = bytes.toString('latin1');
+  return needsQuotes(latin1, delimiter) ? Buffer.from(`"${latin1.replaceAll('"', '""')}"`, 'latin1') : bytes;
 }
 
 /** An aligned text table for reading, with these headings for the table's own columns. */
@@ -86,14 +93,14 @@ export async function writeTable(
         for (let k = 0; k < view.fieldCount; k++) {
           if (k > 0) sink.push(delimiter);
           const replacement = row >= 0 ? replacing.get(k) : undefined;
-          if (replacement) sink.push(replacement.cell(row));
+          if (replacement) sink.push(quoted(replacement.cell(row), delimiter));
           else if (copyFields) sink.push(buf.subarray(view.starts[k], view.ends[k]));
-          else sink.push(quoted(fieldText(view, k), delimiter));
+          else sink.push(quotedBytes(fieldBytes(view, k), delimiter));
         }
       }
       for (const column of appended) {
         sink.push(delimiter);
-        sink.push(row < 0 ? quoted(column.name, delimiter) : column.cell(row));
+        sink.push(quoted(row < 0 ? column.name : column.cell(row), delimiter));
       }
       sink.push(buf.subarray(view.contentEnd, view.next));
       row++;

@@ -6,7 +6,8 @@
 // order comes from a stable least-significant-digit radix sort on the bits
 // of the doubles: for numbers >= 0 the IEEE 754 bit patterns, read as
 // unsigned integers, sort in the same order as the numbers. Four passes of
-// 16 bits each make it linear in m, with no comparator calls.
+// 16 bits each make it linear in m, with no comparator calls; small inputs
+// (many small families) use a comparison sort instead.
 
 import { checkedTestCount } from './validate.js';
 
@@ -14,6 +15,15 @@ import { checkedTestCount } from './validate.js';
 export type SortedKernel = (sorted: Float64Array, m: number) => Float64Array;
 
 const RADIX = 1 << 16;
+/** Below this many values a comparison sort beats clearing a 65,536-entry count table four times. */
+const SMALL = 512;
+
+function smallAscendingOrder(p: Float64Array): Uint32Array {
+  const order = new Uint32Array(p.length);
+  for (let i = 0; i < order.length; i++) order[i] = i;
+  // Ties broken by position keep the sort stable; -0 and 0 compare equal, as they should.
+  return order.sort((a, b) => p[a] - p[b] || a - b);
+}
 
 /**
  * The permutation that sorts p ascending: p[order[0]] <= p[order[1]] <= ...
@@ -21,6 +31,7 @@ const RADIX = 1 << 16;
  */
 export function ascendingOrder(p: Float64Array): Uint32Array {
   const n = p.length;
+  if (n < SMALL) return smallAscendingOrder(p);
   const values = new Float64Array(n);
   for (let i = 0; i < n; i++) values[i] = p[i] + 0; // +0 turns -0 into 0, whose bits sort first
   const bits = new Uint32Array(values.buffer);
