@@ -20,7 +20,7 @@ import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { UsageError, quoteText } from '../errors.js';
 import { EXIT_HELP } from '../exit-codes.js';
-import { TooFewTestsError, adjustWithinFamilies } from '../families.js';
+import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { createAtomicFile, type AtomicFile } from '../io/atomic-file.js';
 import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
@@ -28,7 +28,7 @@ import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
-import { familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
+import { type Summary, familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
 import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
@@ -191,6 +191,54 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
   return { table, summary };
 }
 
+/** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
+function adjustOrExplain(table: Table, methods: readonly Method[], options: AdjustOptions, familyColumnNames: readonly string[]): WithinFamilies {
+  try {
+    return adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests });
+  } catch (error) {
+    if (!(error instanceof TooFewTestsError)) throw error;
+    const values = table.familyValues[error.family] ?? [];
+    const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, values))}`;
+    throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
+  }
+}
+
+/** Writes the table and the JSON summary: every file complete, or none changed. */
+async function writeOutputs(
+  source: InputSource,
+  table: Table,
+  columns: readonly OutputColumn[],
+  format: OutputFormat,
+  summary: Summary,
+  targets: { table?: string; summary?: string },
+): Promise<void> {
+  const files: AtomicFile[] = [];
+  const abandon = (error: unknown): never => {
+    for (const unfinished of files) unfinished.abort();
+    throw error;
+  };
+  const tableFile = targets.table === undefined ? undefined : createAtomicFile(targets.table);
+  if (tableFile) files.push(tableFile);
+  try {
+    await writeTable(source, table.shape, columns, format, new ByteSink(tableFile ? tableFile.stream : process.stdout), table.p.length);
+  } catch (error) {
+    // A reader that stops early (famwise adjust big.csv | head) is not a failure.
+    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || tableFile) abandon(error);
+  }
+  const json = `${JSON.stringify(summary, null, 2)}\n`;
+  try {
+    if (targets.summary === '-') process.stdout.write(json);
+    else if (targets.summary !== undefined) {
+      const summaryFile = createAtomicFile(targets.summary);
+      files.push(summaryFile);
+      summaryFile.stream.write(json);
+    }
+    for (const done of files) await done.commit();
+  } catch (error) {
+    abandon(error);
+  }
+}
+
 async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
@@ -201,60 +249,24 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     pColumn: fromValues ? 'p' : options.pColumn,
     familyColumns: options.family,
   });
-  const typedAtTerminal = !fromValues && (file === undefined || file === '-') && process.stdin.isTTY === true;
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
   };
+  const typedAtTerminal = !fromValues && (file === undefined || file === '-') && process.stdin.isTTY === true;
   for (const notice of table.notices) {
     // Pasting bare p-values at the terminal is what the prompt asked for.
     if (!(notice.id === 'header-guessed' && typedAtTerminal)) note(notice.text);
   }
-  const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
-  const methods = options.methods;
 
-  let result;
-  try {
-    result = adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests });
-  } catch (error) {
-    if (!(error instanceof TooFewTestsError)) throw error;
-    const values = table.familyValues[error.family] ?? [];
-    const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, values))}`;
-    throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
-  }
-  const summary = summarize(result, methods, familyColumnNames, table.familyValues, options.alpha);
-  if (table.p.every(Number.isNaN)) note('the table holds no p-values to adjust');
+  const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
+  const result = adjustOrExplain(table, options.methods, options, familyColumnNames);
+  const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha);
+  if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
 
   const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
   // Decimal commas in, decimal commas out; but never in comma-separated output.
   const decimalComma = table.decimalComma && !('delimiter' in format && format.delimiter === COMMA);
-  const columns = outputColumns(table, methods, result.adjusted, options, decimalComma);
-
-  const files: AtomicFile[] = [];
-  const tableFile = targets.table === undefined ? undefined : createAtomicFile(targets.table);
-  if (tableFile) files.push(tableFile);
-  try {
-    const sink = new ByteSink(tableFile ? tableFile.stream : process.stdout);
-    await writeTable(source, table.shape, columns, format, sink, table.p.length);
-  } catch (error) {
-    // A reader that stops early (famwise adjust big.csv | head) is not a failure.
-    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || tableFile) {
-      for (const unfinished of files) unfinished.abort();
-      throw error;
-    }
-  }
-  const summaryJson = `${JSON.stringify(summary, null, 2)}\n`;
-  try {
-    if (targets.summary === '-') process.stdout.write(summaryJson);
-    else if (targets.summary !== undefined) {
-      const summaryFile = createAtomicFile(targets.summary);
-      files.push(summaryFile);
-      summaryFile.stream.write(summaryJson);
-    }
-    for (const done of files) await done.commit();
-  } catch (error) {
-    for (const unfinished of files) unfinished.abort();
-    throw error;
-  }
-
+  const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
+  await writeOutputs(source, table, columns, format, summary, targets);
   if (!options.quiet) process.stderr.write(summaryText(summary));
 }

@@ -1,13 +1,19 @@
 // Append-only typed arrays that double their capacity as they fill: rows are
 // kept as numbers in one buffer each, never as per-row objects.
 
-export class GrowableFloat64 {
-  private data = new Float64Array(1024);
+type NumberArray = Float64Array | Int32Array;
+
+export class Growable<T extends NumberArray> {
+  private data: T;
   length = 0;
+
+  constructor(private readonly allocate: (size: number) => T) {
+    this.data = allocate(1024);
+  }
 
   push(value: number): void {
     if (this.length === this.data.length) {
-      const bigger = new Float64Array(this.data.length * 2);
+      const bigger = this.allocate(this.data.length * 2);
       bigger.set(this.data);
       this.data = bigger;
     }
@@ -15,25 +21,7 @@ export class GrowableFloat64 {
   }
 
   /** The values pushed, trimmed to length (a copy, so later pushes do not show). */
-  toArray(): Float64Array {
-    return this.data.slice(0, this.length);
-  }
-}
-
-export class GrowableInt32 {
-  private data = new Int32Array(1024);
-  length = 0;
-
-  push(value: number): void {
-    if (this.length === this.data.length) {
-      const bigger = new Int32Array(this.data.length * 2);
-      bigger.set(this.data);
-      this.data = bigger;
-    }
-    this.data[this.length++] = value;
-  }
-
-  toArray(): Int32Array {
-    return this.data.slice(0, this.length);
+  toArray(): T {
+    return this.data.slice(0, this.length) as T;
   }
 }
