@@ -1,12 +1,11 @@
 // Aligned plain-text tables for reading at a terminal: columns padded with
 // spaces, numbers right-aligned. Used by the summary and by --format table.
 
-import { MISSING_MARKS } from './io/p-value-text.js';
+import { MISSING_MARKS, isNumberText } from './io/p-value-text.js';
 
 /** Cells that neither make a column text nor number: missing marks, and '-' for "none". */
 const neutral = new Set([...MISSING_MARKS, '-']);
 
-const NUMERIC = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 // Characters that take two columns in a terminal: East Asian wide and
 // full-width forms, and most emoji (Unicode Standard Annex #11, roughly).
@@ -36,7 +35,7 @@ export function alignedTable(rawHeader: readonly string[], rawRows: readonly (re
     for (let k = 0; k < columns; k++) {
       const cell = row[k] ?? '';
       widths[k] = Math.max(widths[k] as number, width(cell));
-      if (!neutral.has(cell) && !NUMERIC.test(cell)) numeric[k] = false;
+      if (!neutral.has(cell) && !isNumberText(cell)) numeric[k] = false;
     }
   }
   const line = (cells: readonly string[]): string =>

@@ -22,6 +22,7 @@ import { UsageError, quoteText } from '../errors.js';
 import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
+import { COMMA, TAB } from '../io/dialect.js';
 import { createAtomicFile, type AtomicFile } from '../io/atomic-file.js';
 import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
@@ -32,8 +33,6 @@ import { type Summary, familyLabel, familyRecord, summarize, summaryText } from 
 import { CAUTION } from './cautions.js';
 import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
-const TAB = 0x09;
-const COMMA = 0x2c;
 
 /** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
 const LIKELY_MEANT: Readonly<Record<string, string>> = {

@@ -8,23 +8,26 @@ export interface Dialect {
   readonly loneCrEndsLine: boolean;
 }
 
-const TAB = 0x09;
+export const TAB = 0x09;
+export const COMMA = 0x2c;
+const SEMICOLON = 0x3b;
+const PIPE = 0x7c;
 const QUOTE = 0x22;
-const CANDIDATES = [TAB, 0x2c, 0x3b, 0x7c];
+const CANDIDATES = [TAB, COMMA, SEMICOLON, PIPE];
 const LF = 0x0a;
 const CR = 0x0d;
 
 /** Delimiters famwise sniffs and accepts, by the names users may type. */
 export const DELIMITERS: Readonly<Record<string, number>> = {
-  ',': 0x2c,
-  comma: 0x2c,
+  ',': COMMA,
+  comma: COMMA,
   tab: TAB,
   '\\t': TAB,
   '\t': TAB,
-  ';': 0x3b,
-  semicolon: 0x3b,
-  '|': 0x7c,
-  pipe: 0x7c,
+  ';': SEMICOLON,
+  semicolon: SEMICOLON,
+  '|': PIPE,
+  pipe: PIPE,
 };
 
 
@@ -44,7 +47,7 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
     else if (!inQuotes && (byte === LF || byte === CR)) break;
     else if (!inQuotes && counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
   }
-  const promised = extension === 'tsv' || extension === 'tab' ? TAB : extension === 'csv' ? 0x2c : -1;
+  const promised = extension === 'tsv' || extension === 'tab' ? TAB : extension === 'csv' ? COMMA : -1;
   if (promised >= 0 && (counts.get(promised) ?? 0) > 0) return promised;
   let best = -1;
   let bestCount = 0;
@@ -56,7 +59,7 @@ export function sniffDelimiter(head: Buffer, extension: string): number {
     }
   }
   if (best >= 0) return best;
-  return extension === 'tsv' || extension === 'tab' ? TAB : 0x2c;
+  return extension === 'tsv' || extension === 'tab' ? TAB : COMMA;
 }
 
 /**

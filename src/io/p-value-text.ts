@@ -9,6 +9,12 @@ const missing = new Set(MISSING_MARKS);
 // 0.05  .05  5e-3  5E-03  1  0  1.0  3.2e-300
 const DECIMAL = /^(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
+/** Any number written in plain decimal or scientific notation, signed or not. */
+export function isNumberText(text: string): boolean {
+  return SIGNED_DECIMAL.test(text);
+}
+const SIGNED_DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
 export type PValueText = number | 'missing' | 'invalid';
 
 /**

@@ -5,9 +5,9 @@
 import { DataError, UsageError, quoteText } from '../errors.js';
 import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
-import { type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
+import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, readPValue, whyNotPValue } from './p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -56,8 +56,6 @@ const P_COLUMN_NAMES = new Set([
   'nominalp', 'pnominal', 'nominalpvalue', 'prt', 'prz', 'prf', 'prchisq',
 ]);
 
-const COMMA = 0x2c;
-const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 function normalizedName(name: string): string {
   return name.toLowerCase().replace(/[^a-z0-9]/g, '');
@@ -140,7 +138,7 @@ function checkFamilyColumns(shape: TableShape, columns: readonly number[]): void
 function allNumbers(view: RecordView): boolean {
   for (let k = 0; k < view.fieldCount; k++) {
     const text = fieldText(view, k).trim();
-    if (!NUMBER.test(text) && !(text !== '' && MISSING_MARKS.includes(text))) return false;
+    if (!isNumberText(text) && !(text !== '' && MISSING_MARKS.includes(text))) return false;
   }
   return true;
 }
