@@ -1,18 +1,20 @@
 // Output files: all or nothing, and nothing left behind.
-import { chmodSync, mkdtempSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
+import { chmodSync, lstatSync, mkdtempSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { createAtomicFile, removeUnfinishedFiles } from '../src/io/atomic-file.js';
+import { openOutput, removeUnfinishedFiles, routeOutput } from '../src/io/atomic-file.js';
 
-describe('createAtomicFile', () => {
+describe('openOutput', () => {
   it('shows nothing at the target until commit, then the whole content', async () => {
     const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
     const target = join(folder, 'out.csv');
-    const file = createAtomicFile(target);
+    const file = openOutput(target);
     file.stream.write('a,b\n');
     expect(readdirSync(folder).some((name) => name === 'out.csv')).toBe(false);
-    await file.commit();
+    await file.finish();
+    expect(readdirSync(folder).some((name) => name === 'out.csv')).toBe(false);
+    file.install();
     expect(readFileSync(target, 'utf8')).toBe('a,b\n');
     expect(readdirSync(folder)).toEqual(['out.csv']);
   });
@@ -21,7 +23,7 @@ describe('createAtomicFile', () => {
     const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
     const target = join(folder, 'out.csv');
     writeFileSync(target, 'old\n');
-    const file = createAtomicFile(target);
+    const file = openOutput(target);
     file.stream.write('new\n');
     file.abort();
     file.abort();
@@ -34,16 +36,34 @@ describe('createAtomicFile', () => {
     const target = join(folder, 'out.csv');
     writeFileSync(target, 'old\n');
     chmodSync(target, 0o600);
-    const file = createAtomicFile(target);
+    const file = openOutput(target);
     file.stream.write('new\n');
-    await file.commit();
+    await file.finish();
+    file.install();
     expect(statSync(target).mode & 0o777).toBe(0o600);
+  });
+
+  it('creates the file a dangling symbolic link points to, and keeps the link', async () => {
+    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    symlinkSync('made.csv', join(folder, 'link.csv'));
+    const file = openOutput(join(folder, 'link.csv'));
+    file.stream.write('x\n');
+    await file.finish();
+    file.install();
+    expect(lstatSync(join(folder, 'link.csv')).isSymbolicLink()).toBe(true);
+    expect(readFileSync(join(folder, 'made.csv'), 'utf8')).toBe('x\n');
+  });
+
+  it('routes - to standard output, devices directly, and regular files anywhere through a rename', () => {
+    expect(routeOutput('-').kind).toBe('stdout');
+    expect(routeOutput('/dev/null').kind).toBe('direct');
+    expect(routeOutput(join(tmpdir(), 'new.csv')).kind).toBe('replace');
   });
 
   it('removes every unfinished temporary file on an interrupt', () => {
     const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
-    createAtomicFile(join(folder, 'a.csv'));
-    createAtomicFile(join(folder, 'b.json'));
+    openOutput(join(folder, 'a.csv'));
+    openOutput(join(folder, 'b.json'));
     expect(readdirSync(folder)).toHaveLength(2);
     removeUnfinishedFiles();
     expect(readdirSync(folder)).toEqual([]);

@@ -81,15 +81,22 @@ describe('pipes and formats', () => {
 
   it('keeps family values apart that differ only in bytes that are not valid UTF-8', () => {
     const input = Buffer.concat([Buffer.from('site,p\nM'), Buffer.from([0xfc]), Buffer.from('nchen,0.01\nM'), Buffer.from([0xe4]), Buffer.from('nchen,0.02\n')]);
-    const run = famwise(['adjust', '--family', 'site', '--methods', 'bonferroni', '--quiet'], input);
+    const run = famwise(['adjust', '--family', 'site', '--methods', 'bonferroni'], input);
     // Two families of one test each: nothing to multiply.
     expect(run.stdoutBytes.toString('latin1')).toBe('site,p,adj_bonferroni,rej_bonferroni\nM\xfcnchen,0.01,0.01,true\nM\xe4nchen,0.02,0.02,true\n');
+    expect(run.stderr).toMatch(/site=M\\xfcnchen .*\n.*site=M\\xe4nchen /);
   });
 
   it('converts between CSV and TSV without touching bytes that are not valid UTF-8, and without decimal commas in CSV', () => {
     const input = Buffer.concat([Buffer.from('name;p\ncaf'), Buffer.from([0xe9]), Buffer.from(';0,01\n"a;b";0,2\n')]);
     const run = famwise(['adjust', '--format', 'csv', '--methods', 'bonferroni', '--quiet'], input);
     expect(run.stdoutBytes.equals(Buffer.concat([Buffer.from('name,p,adj_bonferroni,rej_bonferroni\ncaf'), Buffer.from([0xe9]), Buffer.from(',"0,01",0.02,true\na;b,"0,2",0.4,false\n')]))).toBe(true);
+  });
+
+  it('reads a ;-separated export with a byte-order mark and a quoted first column name', () => {
+    const run = famwise(['adjust', '--quiet', '--methods', 'bonferroni'], '\ufeff"gene, name";p\nx;0,01\ny;0,02\n');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toBe('\ufeff"gene, name";p;adj_bonferroni;rej_bonferroni\nx;0,01;0,02;true\ny;0,02;0,04;true\n');
   });
 
   it('reads a headerless list whose first value is missing', () => {
@@ -275,6 +282,35 @@ describe('errors name the place and the text, with the right status', () => {
     const run = spawnSync('sh', ['-c', `"${process.execPath}" "${CLI}" adjust --values 0.2 -o /dev/stdout --quiet >> "${log}"`], { encoding: 'utf8' });
     expect(run.status).toBe(0);
     expect(readFileSync(log, 'utf8')).toBe('earlier\np,adj_bh,rej_bh\n0.2,0.2,false\n');
+  });
+
+  it('writes to /dev/stdout and /dev/null as any user, not only as root', () => {
+    // As root (as CI runs) the folder /dev is writable, which hid a bug: run as
+    // nobody then, if nobody can read the build (a clone under /root cannot be).
+    const nobody = { uid: 65534, gid: 65534 };
+    const nobodyCanRun =
+      process.getuid?.() === 0 && spawnSync(process.execPath, ['-e', `require('fs').accessSync(${JSON.stringify(CLI)})`], { cwd: tmpdir(), ...nobody }).status === 0;
+    const asNobody = nobodyCanRun ? nobody : {};
+    for (const target of ['/dev/stdout', '/dev/null']) {
+      const run = spawnSync(process.execPath, [CLI, 'adjust', '--values', '0.2', '--quiet', '-o', target], { encoding: 'utf8', cwd: tmpdir(), ...asNobody });
+      expect(run.stderr).toBe('');
+      expect(run.status).toBe(0);
+      expect(run.stdout).toBe(target === '/dev/stdout' ? 'p,adj_bh,rej_bh\n0.2,0.2,false\n' : '');
+    }
+  });
+
+  it('replaces a regular file under /dev/shm rather than appending to it', () => {
+    const target = `/dev/shm/famwise-e2e-${process.pid}.csv`;
+    writeFileSync(target, 'old\n');
+    famwise(['adjust', '--values', '0.2', '--quiet', '-o', target]);
+    famwise(['adjust', '--values', '0.2', '--quiet', '-o', target]);
+    expect(readFileSync(target, 'utf8')).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
+  });
+
+  it('treats -o /dev/stdout as standard output, so the summary cannot go there too', () => {
+    const run = famwise(['adjust', '--values', '0.2', '-o', '/dev/stdout', '--summary', '-']);
+    expect(run.status).toBe(2);
+    expect(run.stderr).toMatch(/--summary -: standard output carries the table/);
   });
 
   it('reports a full disk cleanly', () => {

@@ -40,11 +40,24 @@ describe('sniffDelimiter', () => {
     expect(sniff('p\n0.1\n')).toBe(',');
   });
 
-  it('follows the file name when its delimiter occurs on the first line', () => {
-    expect(sniff('gene\tnote (a, b, c, d)\tp\n', 'tsv')).toBe('\t');
-    expect(sniff('gene\tnote (a, b, c, d)\tp\n', '')).toBe(',');
-    expect(sniff('a;b;c,d\n', 'csv')).toBe(',');
+  it('prefers a delimiter that occurs equally often on the first two lines', () => {
+    expect(sniff('gene\tnote (a, b, c, d)\tp\nx\ty\t0.1\n', 'tsv')).toBe('\t');
+    expect(sniff('gene\tnote (a, b, c, d)\tp\nx\ty\t0.1\n', '')).toBe('\t');
+    expect(sniff('gene;fold change (A,B);p\nx;1;0,01\n', 'csv')).toBe(';');
+    expect(sniff('id;"a\nb";p\nx;y;0,5\n')).toBe(';');
+  });
+
+  it('follows the file name on a tie, the counts otherwise', () => {
+    expect(sniff('gene\tnote (a, b)\tp\n', 'tsv')).toBe('\t');
+    expect(sniff('gene,note (a\tb),p\n', 'csv')).toBe(',');
+    expect(sniff('gene\tnote (a, b, c, d)\tp\n', 'tsv')).toBe(',');
     expect(sniff('a;b;c\n', 'csv')).toBe(';');
+  });
+
+  it('looks past a byte-order mark, and reads a quote inside a field as text', () => {
+    expect(sniff('\ufeff"gene, name";p\nx;0,01\n')).toBe(';');
+    expect(sniff('size (5");a;b\n')).toBe(';');
+    expect(sniffLoneCr(Buffer.from('\ufeff"a\rb",c\r\n1,2\r\n'))).toBe(false);
   });
 });
 

@@ -23,7 +23,7 @@ import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
-import { createAtomicFile, type AtomicFile } from '../io/atomic-file.js';
+import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
@@ -169,23 +169,21 @@ function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean)
   return { delimiter: table.shape.delimiter };
 }
 
-/** Where the table and the summary go; '-' means standard output. */
+/** Where the table and the summary go; '-' (or a path that is standard output) means standard output. */
 function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string } {
-  const table = options.output === '-' ? undefined : options.output;
-  const summary = options.summary;
+  const { output: table, summary } = options;
   if (table !== undefined) checkWritable(table, '--output');
-  if (summary === '-') {
-    if (table === undefined) throw new UsageError('--summary -: standard output carries the table; give the summary a file name, or send the table to a file with -o');
-    return { table, summary };
+  if (summary === undefined) return { table, summary };
+  checkWritable(summary, '--summary');
+  const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
+  if (tableToStdout && routeOutput(summary).kind === 'stdout') {
+    throw new UsageError(`--summary ${summary}: standard output carries the table; give the summary a file name, or send the table to a file with -o`);
   }
-  if (summary !== undefined) {
-    checkWritable(summary, '--summary');
-    if (table !== undefined && samePath(table, summary)) {
-      throw new UsageError(`--summary ${summary}: is also the --output file; give them different names`);
-    }
-    if (file !== undefined && file !== '-' && samePath(file, summary)) {
-      throw new UsageError(`--summary ${summary}: is the input table; writing the summary there would replace it`);
-    }
+  if (table !== undefined && samePath(table, summary)) {
+    throw new UsageError(`--summary ${summary}: is also the --output file; give them different names`);
+  }
+  if (file !== undefined && file !== '-' && samePath(file, summary)) {
+    throw new UsageError(`--summary ${summary}: is the input table; writing the summary there would replace it`);
   }
   return { table, summary };
 }
@@ -211,28 +209,29 @@ async function writeOutputs(
   summary: Summary,
   targets: { table?: string; summary?: string },
 ): Promise<void> {
-  const files: AtomicFile[] = [];
+  const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
     for (const unfinished of files) unfinished.abort();
     throw error;
   };
-  const tableFile = targets.table === undefined ? undefined : createAtomicFile(targets.table);
-  if (tableFile) files.push(tableFile);
+  const tableFile = openOutput(targets.table ?? '-');
+  files.push(tableFile);
   try {
-    await writeTable(source, table.shape, columns, format, new ByteSink(tableFile ? tableFile.stream : process.stdout), table.p.length);
+    await writeTable(source, table.shape, columns, format, new ByteSink(tableFile.stream), table.p.length);
   } catch (error) {
-    // A reader that stops early (famwise adjust big.csv | head) is not a failure.
-    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || tableFile) abandon(error);
+    // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
+    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) abandon(error);
+    files.pop();
+    tableFile.abort();
   }
-  const json = `${JSON.stringify(summary, null, 2)}\n`;
   try {
-    if (targets.summary === '-') process.stdout.write(json);
-    else if (targets.summary !== undefined) {
-      const summaryFile = createAtomicFile(targets.summary);
+    if (targets.summary !== undefined) {
+      const summaryFile = openOutput(targets.summary);
       files.push(summaryFile);
-      summaryFile.stream.write(json);
+      summaryFile.stream.write(`${JSON.stringify(summary, null, 2)}\n`);
     }
-    for (const done of files) await done.commit();
+    for (const done of files) await done.finish();
+    for (const done of files) done.install();
   } catch (error) {
     abandon(error);
   }

@@ -8,6 +8,7 @@ import type { Command } from 'commander';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
 import { DELIMITERS } from '../io/dialect.js';
+import { routeOutput } from '../io/atomic-file.js';
 import { type InputSource, fileSource, streamSource } from '../io/source.js';
 
 /** Collects a repeatable, comma-separated option into one list. */
@@ -83,13 +84,24 @@ export function samePath(a: string, b: string): boolean {
   return real(a) === real(b);
 }
 
-/** Fails early, before any reading, when an output file could not be written. */
+/** Fails early, before any reading, when an output could not be written. */
 export function checkWritable(path: string, flag: string): void {
   if (path.endsWith('/')) throw new UsageError(`${flag} ${path}: names a folder; give a file name`);
   if (Buffer.byteLength(basename(path)) > 255) throw new UsageError(`${flag}: the file name is longer than 255 bytes`);
-  const folder = dirname(path);
-  if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new UsageError(`${flag} ${path}: the folder ${folder} does not exist`);
-  if (existsSync(path) && statSync(path).isDirectory()) throw new UsageError(`${flag} ${path}: is a folder`);
+  const route = routeOutput(path);
+  if (route.kind === 'stdout' || route.kind === 'stderr') return;
+  if (route.kind === 'direct') {
+    try {
+      accessSync(route.path, constants.W_OK);
+    } catch {
+      throw new UsageError(`${flag} ${path}: is not writable`);
+    }
+    return;
+  }
+  // The temporary file goes beside the file that will be replaced.
+  const folder = dirname(route.path);
+  if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new UsageError(`${flag} ${path}: the folder ${dirname(path)} does not exist`);
+  if (route.existing?.isDirectory()) throw new UsageError(`${flag} ${path}: is a folder`);
   try {
     accessSync(folder, constants.W_OK);
   } catch {

@@ -1,37 +1,97 @@
-// Output files are written under a temporary name beside the target and
-// renamed over it only when everything succeeded, so a failed or interrupted
-// run never leaves a half-written file and never changes an existing one.
-// A symbolic link is followed (the file it points to is replaced, the link
-// stays), and an existing file keeps its permission bits. Targets that are
-// not regular files (a named pipe, a terminal), and anything under /dev or
-// /proc (/dev/stdout may stand for a file the shell opened for appending),
-// cannot be replaced by a rename, so they are written directly.
+// Where output goes, and writing it all or nothing.
+//
+// A regular file is written under a temporary name beside the target and
+// renamed over it only when every output is complete, so a failed or
+// interrupted run never leaves a half-written file and never changes an
+// existing one. A symbolic link is followed (the file it points to is
+// replaced, even if it does not exist yet; the link stays), and an existing
+// file keeps its permission bits. A path that is this process's standard
+// output or error (/dev/stdout, /dev/fd/1, or the very file they were
+// redirected to) is written through that stream; anything else that is not a
+// regular file (a named pipe, a terminal, /dev/null) is written directly.
 
 import { randomBytes } from 'node:crypto';
-import { chmodSync, createWriteStream, existsSync, openSync, realpathSync, renameSync, rmSync, statSync, type WriteStream } from 'node:fs';
+import {
+  chmodSync,
+  createWriteStream,
+  fstatSync,
+  lstatSync,
+  openSync,
+  readlinkSync,
+  renameSync,
+  rmSync,
+  statSync,
+  type Stats,
+} from 'node:fs';
+import type { Writable } from 'node:stream';
 import { dirname, join, resolve } from 'node:path';
 import { UsageError } from '../errors.js';
 
 const unfinished = new Set<string>();
 
-export interface AtomicFile {
-  readonly stream: WriteStream;
-  /** Closes the stream and moves the file into place. */
-  commit(): Promise<void>;
-  /** Removes the temporary file. Safe to call more than once. */
-  abort(): void;
+/** How an output path will be written. */
+export type OutputRoute =
+  | { readonly kind: 'stdout' }
+  | { readonly kind: 'stderr' }
+  | { readonly kind: 'direct'; readonly path: string }
+  /** path: the file that will be replaced, links followed. */
+  | { readonly kind: 'replace'; readonly path: string; readonly existing: Stats | undefined };
+
+/** Follows symbolic links, also to a file that does not exist yet. */
+function followLinks(path: string): string {
+  let current = resolve(path);
+  for (let hops = 0; hops < 40; hops++) {
+    let stat;
+    try {
+      stat = lstatSync(current);
+    } catch {
+      return current;
+    }
+    if (!stat.isSymbolicLink()) return current;
+    current = resolve(dirname(current), readlinkSync(current));
+  }
+  return current;
 }
 
-function closed(stream: WriteStream, failure: () => Error | undefined): Promise<void> {
-  return new Promise<void>((resolve, reject) => {
-    const early = failure();
-    if (early) return reject(early);
-    stream.end((error?: Error | null) => {
-      const late = error ?? failure();
-      if (late) reject(late);
-      else resolve();
-    });
-  });
+function statOrUndefined(path: string): Stats | undefined {
+  try {
+    return statSync(path);
+  } catch {
+    return undefined;
+  }
+}
+
+/** '-' is standard output; see the comment at the top for the rest. */
+export function routeOutput(path: string): OutputRoute {
+  if (path === '-') return { kind: 'stdout' };
+  const stat = statOrUndefined(path);
+  if (stat) {
+    for (const [fd, kind] of [[1, 'stdout'], [2, 'stderr']] as const) {
+      const open = (() => {
+        try {
+          return fstatSync(fd);
+        } catch {
+          return undefined;
+        }
+      })();
+      if (open && open.dev === stat.dev && open.ino === stat.ino) return { kind };
+    }
+    if (!stat.isFile()) return { kind: 'direct', path };
+  }
+  const target = followLinks(path);
+  return { kind: 'replace', path: target, existing: statOrUndefined(target) };
+}
+
+export interface OutputFile {
+  readonly stream: Writable;
+  /** Whether the stream writes into the target itself, so that what is written cannot be taken back. */
+  readonly direct: boolean;
+  /** Flushes and closes the stream. */
+  finish(): Promise<void>;
+  /** Moves the finished file into place (after every output has finished). */
+  install(): void;
+  /** Removes the temporary file. Safe to call more than once. */
+  abort(): void;
 }
 
 function removeQuietly(path: string): void {
@@ -51,33 +111,46 @@ function openForWriting(path: string, flags: string, shownAs: string): number {
   }
 }
 
-export function createAtomicFile(path: string): AtomicFile {
+function closed(stream: Writable, failure: () => Error | undefined): Promise<void> {
+  return new Promise<void>((resolve, reject) => {
+    const early = failure();
+    if (early) return reject(early);
+    stream.end((error?: Error | null) => {
+      const late = error ?? failure();
+      if (late) reject(late);
+      else resolve();
+    });
+  });
+}
+
+export function openOutput(path: string): OutputFile {
+  const route = routeOutput(path);
+  if (route.kind === 'stdout' || route.kind === 'stderr') {
+    const stream = route.kind === 'stdout' ? process.stdout : process.stderr;
+    return { stream, direct: true, finish: async () => {}, install: () => {}, abort: () => {} };
+  }
   let failure: Error | undefined;
-  // Errors surface through commit(); keep an unhandled 'error' from crashing the process.
+  // Errors surface through finish(); keep an unhandled 'error' from crashing the process.
   const remember = (error: Error): void => {
     failure ??= error;
   };
-  const special = /^\/(dev|proc)\//.test(resolve(path));
-  const target = !special && existsSync(path) ? realpathSync(path) : path;
-  const existing = existsSync(target) ? statSync(target) : undefined;
-
-  if (special || (existing && !existing.isFile())) {
-    const stream = createWriteStream('', { fd: openForWriting(target, 'a', path) });
+  if (route.kind === 'direct') {
+    const stream = createWriteStream('', { fd: openForWriting(route.path, 'w', path) });
     stream.on('error', remember);
-    return { stream, commit: () => closed(stream, () => failure), abort: () => stream.destroy() };
+    return { stream, direct: true, finish: () => closed(stream, () => failure), install: () => {}, abort: () => stream.destroy() };
   }
-
-  const temporary = join(dirname(target), `.famwise-${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
+  const temporary = join(dirname(route.path), `.famwise-${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
   const fd = openForWriting(temporary, 'wx', path);
   unfinished.add(temporary);
   const stream = createWriteStream('', { fd });
   stream.on('error', remember);
   return {
     stream,
-    async commit() {
-      await closed(stream, () => failure);
-      if (existing) chmodSync(temporary, existing.mode & 0o7777);
-      renameSync(temporary, target);
+    direct: false,
+    finish: () => closed(stream, () => failure),
+    install() {
+      if (route.existing) chmodSync(temporary, route.existing.mode & 0o7777);
+      renameSync(temporary, route.path);
       unfinished.delete(temporary);
     },
     abort() {
@@ -88,7 +161,7 @@ export function createAtomicFile(path: string): AtomicFile {
   };
 }
 
-/** Removes every temporary file not yet committed (on an interrupt). */
+/** Removes every temporary file not yet installed (on an interrupt). */
 export function removeUnfinishedFiles(): void {
   for (const temporary of unfinished) removeQuietly(temporary);
   unfinished.clear();

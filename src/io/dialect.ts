@@ -31,35 +31,53 @@ export const DELIMITERS: Readonly<Record<string, number>> = {
 };
 
 
-/**
- * The delimiter of the first line of `head`: the one the file name promises
- * (.tsv or .tab: tab; .csv: comma) if it occurs there outside quotes, else
- * the one that occurs most often (ties go to tab, then comma, semicolon,
- * pipe). A one-column table has none: then .tsv or .tab means tab, anything
- * else comma.
- */
-export function sniffDelimiter(head: Buffer, extension: string): number {
-  const counts = new Map<number, number>(CANDIDATES.map((c) => [c, 0]));
+/** How often each candidate delimiter occurs outside quotes on each of the first `lines` records. */
+function countPerLine(head: Buffer, lines: number): Map<number, number>[] {
+  const perLine: Map<number, number>[] = [];
+  let counts = new Map<number, number>(CANDIDATES.map((c) => [c, 0]));
   let inQuotes = false;
-  for (let i = 0; i < head.length; i++) {
+  let lineEnded = false;
+  for (let i = 0; i < head.length && perLine.length < lines; i++) {
     const byte = head[i];
     if (byte === QUOTE) inQuotes = opensOrClosesQuote(head, i, inQuotes) ? !inQuotes : inQuotes;
-    else if (!inQuotes && (byte === LF || byte === CR)) break;
-    else if (!inQuotes && counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
-  }
-  const promised = extension === 'tsv' || extension === 'tab' ? TAB : extension === 'csv' ? COMMA : -1;
-  if (promised >= 0 && (counts.get(promised) ?? 0) > 0) return promised;
-  let best = -1;
-  let bestCount = 0;
-  for (const candidate of CANDIDATES) {
-    const count = counts.get(candidate) as number;
-    if (count > bestCount) {
-      best = candidate;
-      bestCount = count;
+    if (inQuotes) continue;
+    if (byte === LF || byte === CR) {
+      lineEnded = true;
+      continue;
     }
+    if (lineEnded) {
+      perLine.push(counts);
+      counts = new Map<number, number>(CANDIDATES.map((c) => [c, 0]));
+      lineEnded = false;
+    }
+    if (counts.has(byte)) counts.set(byte, (counts.get(byte) as number) + 1);
   }
-  if (best >= 0) return best;
-  return extension === 'tsv' || extension === 'tab' ? TAB : COMMA;
+  if (perLine.length < lines && (lineEnded || !inQuotes)) perLine.push(counts);
+  return perLine.slice(0, lines);
+}
+
+/**
+ * The delimiter of a table, from its first two lines: among the candidates
+ * that occur equally often (and at least once) on both, the most frequent;
+ * without a second line, or if none is steady, the most frequent on the
+ * first line. Ties go to the one the file name promises (.tsv or .tab: tab;
+ * .csv: comma), then to tab, comma, semicolon, pipe. A one-column table has
+ * none: then .tsv or .tab means tab, anything else comma.
+ */
+export function sniffDelimiter(head: Buffer, extension: string): number {
+  const [first, second] = countPerLine(withoutByteOrderMark(head), 2);
+  const promised = extension === 'tsv' || extension === 'tab' ? TAB : extension === 'csv' ? COMMA : -1;
+  const count = (c: number): number => first?.get(c) ?? 0;
+  const steady = CANDIDATES.filter((c) => count(c) > 0 && second?.get(c) === count(c));
+  const pool = steady.length > 0 ? steady : CANDIDATES.filter((c) => count(c) > 0);
+  if (pool.length === 0) return promised === TAB ? TAB : COMMA;
+  const most = Math.max(...pool.map(count));
+  const best = pool.filter((c) => count(c) === most);
+  return best.includes(promised) ? promised : (best[0] as number);
+}
+
+function withoutByteOrderMark(head: Buffer): Buffer {
+  return head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf ? head.subarray(3) : head;
 }
 
 /**
@@ -75,6 +93,7 @@ function opensOrClosesQuote(head: Buffer, i: number, inQuotes: boolean): boolean
 
 /** Whether the first line break outside quotes is a lone CR. */
 export function sniffLoneCr(head: Buffer): boolean {
+  head = withoutByteOrderMark(head);
   let inQuotes = false;
   for (let i = 0; i < head.length; i++) {
     const byte = head[i];

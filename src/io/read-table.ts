@@ -143,6 +143,18 @@ function allNumbers(view: RecordView): boolean {
   return true;
 }
 
+/**
+ * A value's bytes (as latin1 text) shown as UTF-8 text; bytes that are not
+ * valid UTF-8 are shown as \xHH, so that values differing only in them
+ * still look different.
+ */
+function shownText(latin1: string): string {
+  const bytes = Buffer.from(latin1, 'latin1');
+  const text = bytes.toString('utf8');
+  if (!text.includes('\ufffd') || Buffer.from(text, 'utf8').equals(bytes)) return text;
+  return latin1.replace(/[\x80-\xff]/g, (character) => `\\x${character.charCodeAt(0).toString(16)}`);
+}
+
 /** Encodings and compressions that famwise does not read, recognised by their first bytes. */
 function refuseUnreadable(head: Buffer, name: string): void {
   if (head[0] === 0x1f && head[1] === 0x8b) {
@@ -218,7 +230,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (id === undefined) {
       id = familyValues.length;
       familyIndex.set(key, id);
-      familyValues.push(familyColumns.map((column) => fieldText(view, column)));
+      familyValues.push(bytes.map(shownText));
     }
     familyIds.push(id);
   };
