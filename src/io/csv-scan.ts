@@ -62,11 +62,6 @@ export function fieldBytes(view: RecordView, k: number): Buffer {
   return inner.includes(QUOTE) ? Buffer.from(inner.toString('latin1').replaceAll('""', '"'), 'latin1') : inner;
 }
 
-/** Whether field k is quoted in the input. */
-export function isQuoted(view: RecordView, k: number): boolean {
-  return view.ends[k] > view.starts[k] && view.buf[view.starts[k]] === QUOTE;
-}
-
 export class RecordScanner {
   /** Line number of the next byte to scan. */
   line = 1;

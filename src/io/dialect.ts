@@ -103,7 +103,3 @@ export function sniffLoneCr(head: Buffer): boolean {
   }
   return false;
 }
-
-export function delimiterName(delimiter: number): string {
-  return delimiter === TAB ? 'tab' : JSON.stringify(String.fromCharCode(delimiter));
-}
