@@ -30,7 +30,6 @@ export const DELIMITERS: Readonly<Record<string, number>> = {
   pipe: PIPE,
 };
 
-
 /** How often each candidate delimiter occurs outside quotes on each of the first `lines` records. */
 function countPerLine(head: Buffer, lines: number): Map<number, number>[] {
   const perLine: Map<number, number>[] = [];
