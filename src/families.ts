@@ -5,7 +5,7 @@
 // and every method runs on the same sorted values. Nothing but typed arrays
 // is allocated per row.
 
-import type { Method } from './methods.js';
+import { DEFAULT_SETTINGS, type Method, type MethodSettings } from './methods.js';
 import { ascendingOrder, gather } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
@@ -39,6 +39,8 @@ export interface WithinFamiliesOptions {
   readonly alpha: number;
   /** The real number of tests in every family, when the table holds only some. */
   readonly tests?: number | undefined;
+  /** Tuning for the procedures that take any. */
+  readonly settings?: MethodSettings | undefined;
 }
 
 /** Thrown when --tests is smaller than the p-values a family holds. */
@@ -107,7 +109,7 @@ export function adjustWithinFamilies(
     const sorted = gather(segment, order);
     outcomes.push(
       methods.map((method, k) => {
-        const values = method.adjustSorted(sorted, m);
+        const values = method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS).adjusted;
         const target = adjusted[k];
         let rejected = 0;
         let threshold = -1;

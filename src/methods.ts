@@ -7,10 +7,31 @@ import { benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
 import { bonferroniSorted } from './procedures/bonferroni.js';
 import { hochbergSorted } from './procedures/hochberg.js';
 import { holmSorted } from './procedures/holm.js';
-import { type SortedKernel, adjustInInputOrder } from './procedures/sorting.js';
+import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
+import { checkedTestCount } from './procedures/validate.js';
 
 export type ErrorRate = 'FWER' | 'FDR';
 export type StepKind = 'single-step' | 'step-down' | 'step-up';
+
+/** One family of hypotheses as a procedure sees it. */
+export interface FamilyInput {
+  /** The family's p-values, ascending, none missing. */
+  readonly sorted: Float64Array;
+  /** Tests counted: sorted.length, or more when the table holds only some (absent tests count as p = 1). */
+  readonly m: number;
+}
+
+/** What a procedure returns for one family. */
+export interface FamilyAdjustment {
+  /** Adjusted p-values in the order of FamilyInput.sorted. */
+  readonly adjusted: Float64Array;
+}
+
+/** Settings some procedures take; one object shared by all methods. */
+// Procedures with tuning (pi0 estimators, seeds) add their fields here.
+export interface MethodSettings {}
+
+export const DEFAULT_SETTINGS: MethodSettings = {};
 
 interface MethodEntry {
   /** What users type in --methods; also names the output columns. */
@@ -21,13 +42,18 @@ interface MethodEntry {
   readonly dependence: string;
   readonly steps: StepKind;
   readonly source: string;
-  /** Adjusted values of ascending p-values; m >= sorted.length counts absent tests as p = 1. */
-  readonly adjustSorted: SortedKernel;
+  /** Adjusts one family. */
+  readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
 }
 
 export interface Method extends MethodEntry {
   /** Adjusted p-values in input order; m >= p.length counts absent tests as p = 1. */
-  readonly adjust: (p: Float64Array, m: number) => Float64Array;
+  readonly adjust: (p: Float64Array, m?: number, settings?: MethodSettings) => Float64Array;
+}
+
+/** A procedure that needs nothing but the sorted p-values and m. */
+function plain(kernel: SortedKernel): MethodEntry['run'] {
+  return (family) => ({ adjusted: kernel(family.sorted, family.m) });
 }
 
 const ENTRIES: readonly MethodEntry[] = [
@@ -38,7 +64,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'any',
     steps: 'single-step',
     source: 'Dunn (1961), J. Am. Stat. Assoc. 56:52-64',
-    adjustSorted: bonferroniSorted,
+    run: plain(bonferroniSorted),
   },
   {
     token: 'holm',
@@ -47,7 +73,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'any',
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70',
-    adjustSorted: holmSorted,
+    run: plain(holmSorted),
   },
   {
     token: 'hochberg',
@@ -56,7 +82,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'independent or positively dependent',
     steps: 'step-up',
     source: 'Hochberg (1988), Biometrika 75:800-802',
-    adjustSorted: hochbergSorted,
+    run: plain(hochbergSorted),
   },
   {
     token: 'bh',
@@ -65,7 +91,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'independent or positively dependent',
     steps: 'step-up',
     source: 'Benjamini & Hochberg (1995), J. R. Stat. Soc. B 57:289-300',
-    adjustSorted: benjaminiHochbergSorted,
+    run: plain(benjaminiHochbergSorted),
   },
   {
     token: 'by',
@@ -74,13 +100,17 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'any',
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
-    adjustSorted: benjaminiYekutieliSorted,
+    run: plain(benjaminiYekutieliSorted),
   },
 ];
 
 export const METHODS: readonly Method[] = ENTRIES.map((entry) => ({
   ...entry,
-  adjust: (p: Float64Array, m: number) => adjustInInputOrder(p, m, entry.adjustSorted),
+  adjust: (p: Float64Array, m = p.length, settings = DEFAULT_SETTINGS) => {
+    const tests = checkedTestCount(p, m);
+    const order = ascendingOrder(p);
+    return scatter(entry.run({ sorted: gather(p, order), m: tests }, settings).adjusted, order);
+  },
 }));
 
 export const METHOD_TOKENS: readonly string[] = METHODS.map((method) => method.token);
