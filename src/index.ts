@@ -6,6 +6,9 @@ export { adjustBenjaminiYekutieli, benjaminiYekutieliSorted, harmonicSum } from 
 export { adjustBonferroni, bonferroniSorted } from './procedures/bonferroni.js';
 export { adjustHochberg, hochbergSorted } from './procedures/hochberg.js';
 export { adjustHolm, holmSorted } from './procedures/holm.js';
+export { adjustHolmSidak, holmSidakSorted } from './procedures/holm-sidak.js';
+export { adjustHommel, hommelSorted } from './procedures/hommel.js';
+export { adjustSidak, sidakSorted } from './procedures/sidak.js';
 export { ascendingOrder, adjustInInputOrder, type SortedKernel } from './procedures/sorting.js';
 export { METHODS, METHOD_TOKENS, findMethod, columnNames, type Method, type ErrorRate, type StepKind } from './methods.js';
 export {

@@ -6,12 +6,16 @@ import { benjaminiHochbergSorted } from './procedures/benjamini-hochberg.js';
 import { benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
 import { bonferroniSorted } from './procedures/bonferroni.js';
 import { hochbergSorted } from './procedures/hochberg.js';
+import { holmSidakSorted } from './procedures/holm-sidak.js';
 import { holmSorted } from './procedures/holm.js';
+import { hommelSorted } from './procedures/hommel.js';
+import { sidakSorted } from './procedures/sidak.js';
 import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 export type ErrorRate = 'FWER' | 'FDR';
-export type StepKind = 'single-step' | 'step-down' | 'step-up';
+/** How the procedure walks the sorted p-values; Hommel's is a shortcut to closed testing, none of the three. */
+export type StepKind = 'single-step' | 'step-down' | 'step-up' | 'closed testing';
 
 /** One family of hypotheses as a procedure sees it. */
 export interface FamilyInput {
@@ -76,6 +80,24 @@ const ENTRIES: readonly MethodEntry[] = [
     run: plain(holmSorted),
   },
   {
+    token: 'sidak',
+    name: 'Šidák',
+    controls: 'FWER',
+    dependence: 'independent, or two-sided tests of jointly normal statistics',
+    steps: 'single-step',
+    source: 'Šidák (1967), J. Am. Stat. Assoc. 62:626-633',
+    run: plain(sidakSorted),
+  },
+  {
+    token: 'holm-sidak',
+    name: 'Holm–Šidák',
+    controls: 'FWER',
+    dependence: 'independent, or two-sided tests of jointly normal statistics',
+    steps: 'step-down',
+    source: 'Holm (1979), Scand. J. Stat. 6:65-70, with Šidák (1967) levels',
+    run: plain(holmSidakSorted),
+  },
+  {
     token: 'hochberg',
     name: 'Hochberg',
     controls: 'FWER',
@@ -83,6 +105,15 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Hochberg (1988), Biometrika 75:800-802',
     run: plain(hochbergSorted),
+  },
+  {
+    token: 'hommel',
+    name: 'Hommel',
+    controls: 'FWER',
+    dependence: 'independent or positively dependent',
+    steps: 'closed testing',
+    source: 'Hommel (1988), Biometrika 75:383-386',
+    run: plain(hommelSorted),
   },
   {
     token: 'bh',

@@ -214,7 +214,7 @@ describe('errors name the place and the text, with the right status', () => {
     ['an absurd --tests', ['adjust', '--tests', '9'.repeat(400)], 'p\n0.1\n', 2, /--tests .*needs a whole number from 1 to 9007199254740991/],
     ['a file name too long', ['adjust', '-o', `${'a'.repeat(260)}.csv`], 'p\n0.1\n', 2, /--output: the file name is longer than 255 bytes/],
     ['an unknown family column', ['adjust', '--family', 'plate'], 'id,p\na,0.1\n', 2, /--family "plate": no such column/],
-    ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; did you mean bh\? the methods are bonferroni, holm, hochberg, bh, by/],
+    ['an unknown method', ['adjust', '--methods', 'bh,fdr'], 'p\n0.1\n', 2, /--methods: unknown method "fdr"; did you mean bh\? the methods are bonferroni, holm, sidak, holm-sidak, hochberg, hommel, bh, by/],
     ['alpha out of range', ['adjust', '--alpha', '1'], 'p\n0.1\n', 2, /--alpha "1": needs a level between 0 and 1/],
     ['alpha not a number', ['adjust', '--alpha', '5%'], 'p\n0.1\n', 2, /--alpha "5%"/],
     ['tests not a number', ['adjust', '--tests', 'many'], 'p\n0.1\n', 2, /--tests "many": needs a whole number/],
