@@ -5,7 +5,8 @@
 // and every method runs on the same sorted values. Nothing but typed arrays
 // is allocated per row.
 
-import { DEFAULT_SETTINGS, type Method, type MethodSettings } from './methods.js';
+import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
+import { normalisedWeights } from './procedures/weights.js';
 import { ascendingOrder, gather } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
@@ -39,6 +40,8 @@ export interface WithinFamiliesOptions {
   readonly alpha: number;
   /** The real number of tests in every family, when the table holds only some. */
   readonly tests?: number | undefined;
+  /** Prior weights by row (any scale, normalised to mean 1 within each family); only for methods with a weighted form. */
+  readonly weights?: Float64Array | undefined;
   /** Tuning for the procedures that take any. */
   readonly settings?: MethodSettings | undefined;
 }
@@ -51,6 +54,13 @@ export class TooFewTestsError extends RangeError {
     readonly tests: number,
   ) {
     super(`family ${family} holds ${tested} p-values, more than the ${tests} tests given`);
+  }
+}
+
+/** Thrown when every weight in a family is zero: nothing in it could be rejected. */
+export class ZeroWeightsError extends RangeError {
+  constructor(readonly family: number) {
+    super(`every weight in family ${family} is zero`);
   }
 }
 
@@ -70,7 +80,14 @@ export function adjustWithinFamilies(
   options: WithinFamiliesOptions,
 ): WithinFamilies {
   const { ids, count } = families;
+  const { weights } = options;
   if (ids.length !== p.length) throw new RangeError('family ids and p-values differ in length');
+  if (weights !== undefined) {
+    if (weights.length !== p.length) throw new RangeError('weights and p-values differ in length');
+    if (options.tests !== undefined) throw new RangeError('weights cannot be normalised over tests absent from the table');
+    const unweighted = methods.find((method) => method.adjustWeighted === undefined);
+    if (unweighted) throw new RangeError(`${unweighted.name} has no weighted form`);
+  }
 
   const present = new Int32Array(count);
   const missing = new Int32Array(count);
@@ -88,6 +105,7 @@ export function adjustWithinFamilies(
 
   // Gather each family's p-values into one contiguous segment.
   const gathered = new Float64Array(start[count]);
+  const gatheredWeights = weights === undefined ? undefined : new Float64Array(start[count]);
   const rowOf = new Int32Array(gathered.length);
   const fill = start.slice(0, count);
   for (let row = 0; row < p.length; row++) {
@@ -96,6 +114,7 @@ export function adjustWithinFamilies(
     const at = fill[ids[row]]++;
     gathered[at] = value;
     rowOf[at] = row;
+    if (gatheredWeights !== undefined) gatheredWeights[at] = (weights as Float64Array)[row];
   }
 
   const adjusted = methods.map(() => new Float64Array(p.length).fill(NaN));
@@ -107,9 +126,12 @@ export function adjustWithinFamilies(
     const m = checkedTestCount(segment, options.tests ?? segment.length);
     const order = ascendingOrder(segment);
     const sorted = gather(segment, order);
+    const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);
     outcomes.push(
       methods.map((method, k) => {
-        const values = method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS).adjusted;
+        const values = sortedWeights
+          ? (method.adjustWeighted as WeightedKernel)(sorted, sortedWeights, m)
+          : method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS).adjusted;
         const target = adjusted[k];
         let rejected = 0;
         let threshold = -1;
@@ -132,4 +154,9 @@ export function adjustWithinFamilies(
     );
   }
   return { adjusted, outcomes };
+}
+
+function familyWeights(weights: Float64Array, family: number): Float64Array {
+  if (weights.length > 0 && weights.every((w) => w === 0)) throw new ZeroWeightsError(family);
+  return normalisedWeights(weights);
 }

@@ -10,6 +10,10 @@ import { holmSidakSorted } from './procedures/holm-sidak.js';
 import { holmSorted } from './procedures/holm.js';
 import { hommelSorted } from './procedures/hommel.js';
 import { sidakSorted } from './procedures/sidak.js';
+import { weightedBenjaminiHochberg } from './procedures/weighted-benjamini-hochberg.js';
+import { weightedBonferroni } from './procedures/weighted-bonferroni.js';
+import { weightedHolm } from './procedures/weighted-holm.js';
+import { normalisedWeights } from './procedures/weights.js';
 import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
@@ -31,6 +35,9 @@ export interface FamilyAdjustment {
   readonly adjusted: Float64Array;
 }
 
+/** A weighted procedure: p-values and weights (mean 1) in the same order, adjusted values in that order. */
+export type WeightedKernel = (p: Float64Array, weights: Float64Array, m: number) => Float64Array;
+
 /** Settings some procedures take; one object shared by all methods. */
 // Procedures with tuning (pi0 estimators, seeds) add their fields here.
 export interface MethodSettings {}
@@ -48,6 +55,8 @@ interface MethodEntry {
   readonly source: string;
   /** Adjusts one family. */
   readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
+  /** The weighted form, for procedures that have one. */
+  readonly adjustWeighted?: WeightedKernel;
 }
 
 export interface Method extends MethodEntry {
@@ -65,25 +74,27 @@ const ENTRIES: readonly MethodEntry[] = [
     token: 'bonferroni',
     name: 'Bonferroni',
     controls: 'FWER',
-    dependence: 'any',
+    dependence: 'any dependence',
     steps: 'single-step',
     source: 'Dunn (1961), J. Am. Stat. Assoc. 56:52-64',
     run: plain(bonferroniSorted),
+    adjustWeighted: weightedBonferroni,
   },
   {
     token: 'holm',
     name: 'Holm',
     controls: 'FWER',
-    dependence: 'any',
+    dependence: 'any dependence',
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70',
     run: plain(holmSorted),
+    adjustWeighted: (p, weights) => weightedHolm(p, weights),
   },
   {
     token: 'sidak',
     name: 'Šidák',
     controls: 'FWER',
-    dependence: 'independent, or two-sided tests of jointly normal statistics',
+    dependence: 'independence, or jointly normal two-sided tests',
     steps: 'single-step',
     source: 'Šidák (1967), J. Am. Stat. Assoc. 62:626-633',
     run: plain(sidakSorted),
@@ -92,7 +103,7 @@ const ENTRIES: readonly MethodEntry[] = [
     token: 'holm-sidak',
     name: 'Holm–Šidák',
     controls: 'FWER',
-    dependence: 'independent, or two-sided tests of jointly normal statistics',
+    dependence: 'independence, or jointly normal two-sided tests',
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70, with Šidák (1967) levels',
     run: plain(holmSidakSorted),
@@ -101,7 +112,7 @@ const ENTRIES: readonly MethodEntry[] = [
     token: 'hochberg',
     name: 'Hochberg',
     controls: 'FWER',
-    dependence: 'independent or positively dependent',
+    dependence: 'independence or positive dependence (PRDS)',
     steps: 'step-up',
     source: 'Hochberg (1988), Biometrika 75:800-802',
     run: plain(hochbergSorted),
@@ -110,25 +121,26 @@ const ENTRIES: readonly MethodEntry[] = [
     token: 'hommel',
     name: 'Hommel',
     controls: 'FWER',
-    dependence: 'independent or positively dependent',
+    dependence: 'independence or positive dependence (PRDS)',
     steps: 'closed testing',
     source: 'Hommel (1988), Biometrika 75:383-386',
     run: plain(hommelSorted),
   },
   {
     token: 'bh',
-    name: 'Benjamini-Hochberg',
+    name: 'Benjamini–Hochberg',
     controls: 'FDR',
-    dependence: 'independent or positively dependent',
+    dependence: 'independence or positive dependence (PRDS)',
     steps: 'step-up',
     source: 'Benjamini & Hochberg (1995), J. R. Stat. Soc. B 57:289-300',
     run: plain(benjaminiHochbergSorted),
+    adjustWeighted: weightedBenjaminiHochberg,
   },
   {
     token: 'by',
-    name: 'Benjamini-Yekutieli',
+    name: 'Benjamini–Yekutieli',
     controls: 'FDR',
-    dependence: 'any',
+    dependence: 'any dependence',
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
     run: plain(benjaminiYekutieliSorted),
@@ -145,6 +157,16 @@ export const METHODS: readonly Method[] = ENTRIES.map((entry) => ({
 }));
 
 export const METHOD_TOKENS: readonly string[] = METHODS.map((method) => method.token);
+
+/** The tokens of the procedures with a weighted form. */
+export const WEIGHTED_TOKENS: readonly string[] = METHODS.filter((method) => method.adjustWeighted !== undefined).map((method) => method.token);
+
+/** Weighted adjusted p-values in input order, weights on any scale (normalised to mean 1 here). */
+export function adjustWeighted(method: Method, p: Float64Array, weights: Float64Array): Float64Array {
+  if (method.adjustWeighted === undefined) throw new RangeError(`${method.name} has no weighted form`);
+  if (weights.length !== p.length) throw new RangeError('p-values and weights differ in length');
+  return method.adjustWeighted(p, normalisedWeights(weights), checkedTestCount(p, p.length));
+}
 
 export function findMethod(token: string): Method | undefined {
   return METHODS.find((method) => method.token === token);

@@ -17,8 +17,17 @@ export interface SummaryRow {
   threshold: number | null;
 }
 
+/** How prior weights were used, when they were. */
+export interface WeightsUsed {
+  /** The weights column. */
+  column: string;
+  normalisation: 'mean 1 within each family';
+}
+
 export interface Summary {
   alpha: number;
+  /** Present only when the adjustment was weighted. */
+  weights?: WeightsUsed;
   rows: SummaryRow[];
 }
 
@@ -28,6 +37,7 @@ export function summarize(
   familyColumnNames: readonly string[],
   familyValues: readonly (readonly string[])[],
   alpha: number,
+  weightsColumnName?: string,
 ): Summary {
   const rows: SummaryRow[] = [];
   result.outcomes.forEach((byMethod, f) => {
@@ -36,7 +46,8 @@ export function summarize(
       rows.push({ family, method: (methods[k] as Method).token, ...outcome });
     });
   });
-  return { alpha, rows };
+  if (weightsColumnName === undefined) return { alpha, rows };
+  return { alpha, weights: { column: weightsColumnName, normalisation: 'mean 1 within each family' }, rows };
 }
 
 /** A family's defining values keyed by column name. */
@@ -73,5 +84,7 @@ export function summaryText(summary: Summary): string {
     String(row.rejected),
     shortNumber(row.threshold),
   ]);
-  return alignedTable(header, rows);
+  const table = alignedTable(header, rows);
+  if (summary.weights === undefined) return table;
+  return `${table}weighted by column ${JSON.stringify(summary.weights.column)}, normalised to mean 1 within each family\n`;
 }

@@ -18,9 +18,9 @@ Examples:
 
 import { Command, Option } from 'commander';
 import { z } from 'zod';
-import { UsageError, quoteText } from '../errors.js';
+import { DataError, UsageError, quoteText } from '../errors.js';
 import { EXIT_HELP } from '../exit-codes.js';
-import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
+import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
@@ -28,7 +28,7 @@ import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
-import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
+import { METHOD_TOKENS, type Method, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
 import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
@@ -80,6 +80,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   output: z.string().min(1).optional(),
   summary: z.string().min(1).optional(),
   format: z.enum(['csv', 'tsv', 'table'], { message: 'accepts csv, tsv or table' }).optional(),
+  weights: z.string().min(1, 'needs the name or 1-based position of the column of weights').optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
 });
@@ -95,6 +96,7 @@ export function adjustCommand(): Command {
     .option('--methods <list>', `procedures to apply, comma-separated: ${METHOD_TOKENS.join(', ')} (default: bh)`, collectList)
     .option('--alpha <level>', 'the error rate to control, between 0 and 1 (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
+    .option('--weights <column>', `weight each hypothesis by this column's prior weights (>= 0, any scale, normalised to mean 1 within each family); for ${WEIGHTED_TOKENS.join(', ')}`)
     .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
     .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
@@ -119,6 +121,20 @@ function valuesSource(options: AdjustOptions, file: string | undefined): InputSo
   // Empty items are missing values; a blank line would not be a row at all.
   const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
   return bufferSource(Buffer.from(`p\n${lines.join('\n')}\n`), '--values');
+}
+
+/** Weights go with the procedures that have a weighted form, and with a table that holds every test. */
+function checkWeightsUsage(options: AdjustOptions): void {
+  if (options.weights === undefined) return;
+  const unweighted = options.methods.filter((method) => method.adjustWeighted === undefined);
+  if (unweighted.length > 0) {
+    const names = unweighted.map((method) => method.token).join(', ');
+    throw new UsageError(`--weights: ${names} ${unweighted.length === 1 ? 'has' : 'have'} no weighted form; the weighted procedures are ${WEIGHTED_TOKENS.join(', ')}`);
+  }
+  if (options.tests !== undefined) {
+    throw new UsageError('--weights cannot be combined with --tests: the weights of the tests absent from the table are unknown, so they cannot be normalised');
+  }
+  if (options.values !== undefined) throw new UsageError('--weights needs a table with a column of weights; --values gives p-values only');
 }
 
 /** An adjusted value as the shortest decimal that reads back to the same double. */
@@ -191,11 +207,14 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
 /** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
 function adjustOrExplain(table: Table, methods: readonly Method[], options: AdjustOptions, familyColumnNames: readonly string[]): WithinFamilies {
   try {
-    return adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests });
+    return adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests, weights: table.weights });
   } catch (error) {
-    if (!(error instanceof TooFewTestsError)) throw error;
+    if (!(error instanceof TooFewTestsError || error instanceof ZeroWeightsError)) throw error;
     const values = table.familyValues[error.family] ?? [];
     const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, values))}`;
+    if (error instanceof ZeroWeightsError) {
+      throw new DataError(`--weights ${quoteText(options.weights ?? '')}: every weight in ${where} is zero, so nothing in it could be rejected; give at least one row a positive weight`);
+    }
     throw new UsageError(`--tests ${error.tests}: ${where} holds ${error.tested} p-values; --tests must be at least that`);
   }
 }
@@ -238,6 +257,7 @@ async function writeOutputs(
 }
 
 async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
+  checkWeightsUsage(options);
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const source = fromValues ?? (await openInput(file));
@@ -246,6 +266,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     header: fromValues ? true : options.header,
     pColumn: fromValues ? 'p' : options.pColumn,
     familyColumns: options.family,
+    weightsColumn: options.weights,
   });
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
@@ -258,7 +279,8 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
 
   const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
   const result = adjustOrExplain(table, options.methods, options, familyColumnNames);
-  const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha);
+  const weightsName = table.weightsColumn === undefined ? undefined : (table.shape.names?.[table.weightsColumn] ?? String(table.weightsColumn + 1));
+  const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
 
   const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);

@@ -49,6 +49,8 @@ const FLAGS: Record<string, string> = {
   output: '--output',
   summary: '--summary',
   format: '--format',
+  weights: '--weights',
+  json: '--json',
 };
 
 /** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */

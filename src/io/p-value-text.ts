@@ -23,12 +23,16 @@ export type PValueText = number | 'missing' | 'invalid';
  * (tables not separated by commas), "0,05" reads as 0.05.
  */
 export function readPValue(text: string, decimalComma = false): PValueText {
+  const value = readUnsignedNumber(text, decimalComma);
+  return typeof value === 'number' && value > 1 ? 'invalid' : value;
+}
+
+/** An unsigned decimal number, a missing-value mark, or 'invalid'; the grammar shared by p-values and weights. */
+function readUnsignedNumber(text: string, decimalComma: boolean): PValueText {
   let trimmed = text.trim();
   if (missing.has(trimmed)) return 'missing';
   if (decimalComma && trimmed.includes(',')) trimmed = trimmed.replace(',', '.');
-  if (!DECIMAL.test(trimmed)) return 'invalid';
-  const value = Number(trimmed);
-  return value <= 1 ? value : 'invalid';
+  return DECIMAL.test(trimmed) ? Number(trimmed) : 'invalid';
 }
 
 /** Why a cell's text is not a p-value, for the error message. */
@@ -46,4 +50,23 @@ export function whyNotPValue(text: string, decimalCommaAllowed = false): string 
     return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
   }
   return `expected a number from 0 to 1 (like 0.05 or 5e-3) or a missing-value mark (${MISSING_MARKS.filter(Boolean).join(', ')}, or empty)`;
+}
+
+/**
+ * A prior weight in a cell: a finite number >= 0, 'missing' for a
+ * missing-value mark, or 'invalid'. Same number grammar as p-values.
+ */
+export function readWeight(text: string, decimalComma = false): PValueText {
+  const value = readUnsignedNumber(text, decimalComma);
+  return typeof value === 'number' && !Number.isFinite(value) ? 'invalid' : value;
+}
+
+/** Why a cell's text is not a weight, for the error message. */
+export function whyNotWeight(text: string): string {
+  const trimmed = text.trim();
+  if (/^-\s*\d|^-\.\d/.test(trimmed)) return 'weights cannot be negative (0 means the hypothesis is never rejected)';
+  if (/^[+-]?inf(inity)?$/i.test(trimmed) || (DECIMAL.test(trimmed) && !Number.isFinite(Number(trimmed)))) {
+    return 'weights must be finite';
+  }
+  return 'expected a number >= 0 (like 1, 2.5 or 0)';
 }

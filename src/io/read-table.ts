@@ -7,7 +7,7 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, isNumberText, readPValue, whyNotPValue } from './p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, readWeight, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -20,6 +20,8 @@ export interface ReadOptions {
   readonly pColumn?: string | undefined;
   /** Column names or 1-based indices whose value combinations define the families. */
   readonly familyColumns?: readonly string[] | undefined;
+  /** Column name or 1-based index of prior weights; undefined for none. */
+  readonly weightsColumn?: string | undefined;
 }
 
 /** The layout of a table, as the writers need it. */
@@ -35,6 +37,9 @@ export interface Table {
   readonly familyColumns: readonly number[];
   /** p-value by data row; NaN where missing. */
   readonly p: Float64Array;
+  /** The weights column and its values by data row (NaN where the p-value is missing), when asked for. */
+  readonly weightsColumn?: number;
+  readonly weights?: Float64Array;
   readonly families: FamilyGrouping;
   /** familyValues[f] = the family columns' values that define family f. */
   readonly familyValues: readonly (readonly string[])[];
@@ -193,6 +198,8 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   let shape: TableShape | undefined;
   let pColumn = -1;
   let familyColumns: number[] = [];
+  let weightsColumn = -1;
+  const weights = new Growable((size) => new Float64Array(size));
 
   const start = (view: RecordView): boolean => {
     const header = options.header ?? !allNumbers(view);
@@ -204,6 +211,10 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
     checkFamilyColumns(shape, familyColumns);
+    if (options.weightsColumn !== undefined) {
+      weightsColumn = resolveColumn(shape, options.weightsColumn, '--weights');
+      if (weightsColumn === pColumn) throw new UsageError(`--weights ${quoteText(options.weightsColumn)}: is the p-value column; name the column of weights`);
+    }
     return header;
   };
 
@@ -218,6 +229,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
     p.push(value === 'missing' ? NaN : value);
+    if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
     if (familyColumns.length === 0) {
       familyIds.push(0);
       return;
@@ -233,6 +245,19 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       familyValues.push(bytes.map(shownText));
     }
     familyIds.push(id);
+  };
+
+  const readRowWeight = (view: RecordView, table: TableShape): number => {
+    const text = fieldText(view, weightsColumn);
+    const weight = readWeight(text, decimalCommaAllowed);
+    const where = `${source.name}:${view.line}: ${columnLabel(table, weightsColumn)}`;
+    if (weight === 'missing') {
+      throw new DataError(`${where}: the weight is missing on a row with a p-value; give every tested row a weight (0 if it should never be rejected)`);
+    }
+    if (weight === 'invalid' || weight < 0 || Object.is(weight, -0)) {
+      throw new DataError(`${where}: ${quoteText(text)} is not a weight: ${whyNotWeight(text)}`);
+    }
+    return weight;
   };
 
   await scanInput(source, { delimiter, loneCrEndsLine }, {
@@ -253,6 +278,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     pColumn,
     familyColumns,
     p: p.toArray(),
+    ...(weightsColumn >= 0 ? { weightsColumn, weights: weights.toArray() } : {}),
     families: { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
