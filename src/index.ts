@@ -10,11 +10,24 @@ export { adjustHolmSidak, holmSidakSorted } from './procedures/holm-sidak.js';
 export { adjustHommel, hommelSorted } from './procedures/hommel.js';
 export { adjustSidak, sidakSorted } from './procedures/sidak.js';
 export { ascendingOrder, adjustInInputOrder, type SortedKernel } from './procedures/sorting.js';
-export { METHODS, METHOD_TOKENS, findMethod, columnNames, type Method, type ErrorRate, type StepKind } from './methods.js';
+export {
+  METHODS,
+  METHOD_TOKENS,
+  WEIGHTED_TOKENS,
+  adjustWeighted,
+  findMethod,
+  columnNames,
+  type Method,
+  type ErrorRate,
+  type StepKind,
+} from './methods.js';
+export { normalisedWeights } from './procedures/weights.js';
+export { pi0AtLambda } from './estimators/pi0-lambda.js';
 export {
   adjustWithinFamilies,
   singleFamily,
   TooFewTestsError,
+  ZeroWeightsError,
   type FamilyGrouping,
   type FamilyOutcome,
   type WithinFamilies,
