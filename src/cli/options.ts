@@ -51,6 +51,9 @@ const FLAGS: Record<string, string> = {
   format: '--format',
   weights: '--weights',
   json: '--json',
+  adjustedColumn: '--adjusted-column',
+  method: '--method',
+  mismatches: '--mismatches',
 };
 
 /** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */

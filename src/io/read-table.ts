@@ -8,6 +8,7 @@ import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, isNumberText, readPValue, readWeight, whyNotPValue, whyNotWeight } from './p-value-text.js';
+import { readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -22,7 +23,33 @@ export interface ReadOptions {
   readonly familyColumns?: readonly string[] | undefined;
   /** Column name or 1-based index of prior weights; undefined for none. */
   readonly weightsColumn?: string | undefined;
+  /** Column name or 1-based index of adjusted p-values computed elsewhere (audit); undefined for none. */
+  readonly claimedColumn?: string | undefined;
+  /** Keep each data row's line number (for messages about rows after reading). */
+  readonly lineNumbers?: boolean | undefined;
+  /** Group rows by every other column with few distinct values (audit tries them as families). */
+  readonly keyColumns?: boolean | undefined;
 }
+
+/** Adjusted p-values a table claims, with the precision each was printed to. */
+export interface ClaimedColumn {
+  readonly column: number;
+  /** By data row; NaN where missing. */
+  readonly values: Float64Array;
+  /** Half a unit of each value's last printed digit (0: exact). */
+  readonly halfUnits: Float64Array;
+}
+
+/** A column whose values group the rows, as a family column would. */
+export interface KeyColumn {
+  readonly column: number;
+  readonly families: FamilyGrouping;
+}
+
+/** Columns with more distinct values than this are not tried as families. */
+const KEY_LIMIT = 1000;
+/** Only this many columns are followed as possible families. */
+const KEY_COLUMNS = 64;
 
 /** The layout of a table, as the writers need it. */
 export interface TableShape extends Dialect {
@@ -40,6 +67,11 @@ export interface Table {
   /** The weights column and its values by data row (NaN where the p-value is missing), when asked for. */
   readonly weightsColumn?: number;
   readonly weights?: Float64Array;
+  readonly claimed?: ClaimedColumn;
+  /** Line number of each data row, when asked for. */
+  readonly lines?: Int32Array;
+  /** Columns with 2 to 1000 distinct values (other than the p-value and claimed columns), when asked for. */
+  readonly keys?: readonly KeyColumn[];
   readonly families: FamilyGrouping;
   /** familyValues[f] = the family columns' values that define family f. */
   readonly familyValues: readonly (readonly string[])[];
@@ -200,6 +232,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   let familyColumns: number[] = [];
   let weightsColumn = -1;
   const weights = new Growable((size) => new Float64Array(size));
+  let claimedColumn = -1;
+  const claimedValues = new Growable((size) => new Float64Array(size));
+  const claimedHalfUnits = new Growable((size) => new Float64Array(size));
+  const lines = new Growable((size) => new Int32Array(size));
+  let keyTrackers: { column: number; index: Map<string, number>; ids: Growable<Int32Array> }[] = [];
 
   const start = (view: RecordView): boolean => {
     const header = options.header ?? !allNumbers(view);
@@ -214,6 +251,18 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (options.weightsColumn !== undefined) {
       weightsColumn = resolveColumn(shape, options.weightsColumn, '--weights');
       if (weightsColumn === pColumn) throw new UsageError(`--weights ${quoteText(options.weightsColumn)}: is the p-value column; name the column of weights`);
+    }
+    if (options.claimedColumn !== undefined) {
+      claimedColumn = resolveColumn(shape, options.claimedColumn, '--adjusted-column');
+      if (claimedColumn === pColumn) {
+        throw new UsageError(`--adjusted-column ${quoteText(options.claimedColumn)}: is the raw p-value column; name the column of adjusted values (or the raw one with --p-column)`);
+      }
+    }
+    if (options.keyColumns) {
+      keyTrackers = Array.from({ length: view.fieldCount }, (_, column) => column)
+        .filter((column) => column !== pColumn && column !== claimedColumn)
+        .slice(0, KEY_COLUMNS)
+        .map((column) => ({ column, index: new Map<string, number>(), ids: new Growable((size) => new Int32Array(size)) }));
     }
     return header;
   };
@@ -230,6 +279,9 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
     p.push(value === 'missing' ? NaN : value);
     if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
+    if (claimedColumn >= 0) readRowClaim(view, table);
+    if (options.lineNumbers) lines.push(view.line);
+    if (keyTrackers.length > 0) trackKeys(view);
     if (familyColumns.length === 0) {
       familyIds.push(0);
       return;
@@ -260,6 +312,30 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     return weight;
   };
 
+  const readRowClaim = (view: RecordView, table: TableShape): void => {
+    const text = fieldText(view, claimedColumn);
+    const printed = MISSING_MARKS.includes(text.trim()) ? { value: NaN, halfUnit: NaN } : readPrintedValue(text, decimalCommaAllowed);
+    if (printed === undefined || printed.value < 0 || printed.value > 1) {
+      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, claimedColumn)}: ${quoteText(text)} is not an adjusted p-value: expected a number from 0 to 1 or a missing-value mark`);
+    }
+    claimedValues.push(printed.value);
+    claimedHalfUnits.push(printed.halfUnit);
+  };
+
+  const trackKeys = (view: RecordView): void => {
+    keyTrackers = keyTrackers.filter((tracker) => {
+      const key = fieldText(view, tracker.column, 'latin1');
+      let id = tracker.index.get(key);
+      if (id === undefined) {
+        if (tracker.index.size === KEY_LIMIT) return false;
+        id = tracker.index.size;
+        tracker.index.set(key, id);
+      }
+      tracker.ids.push(id);
+      return true;
+    });
+  };
+
   await scanInput(source, { delimiter, loneCrEndsLine }, {
     record(view) {
       if (shape === undefined) {
@@ -279,6 +355,15 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     familyColumns,
     p: p.toArray(),
     ...(weightsColumn >= 0 ? { weightsColumn, weights: weights.toArray() } : {}),
+    ...(claimedColumn >= 0 ? { claimed: { column: claimedColumn, values: claimedValues.toArray(), halfUnits: claimedHalfUnits.toArray() } } : {}),
+    ...(options.lineNumbers ? { lines: lines.toArray() } : {}),
+    ...(options.keyColumns
+      ? {
+          keys: keyTrackers
+            .filter((tracker) => tracker.index.size >= 2)
+            .map((tracker) => ({ column: tracker.column, families: { ids: tracker.ids.toArray(), count: tracker.index.size } })),
+        }
+      : {}),
     families: { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
