@@ -28,7 +28,8 @@ export function significantDigits(value: number, halfUnit: number): number {
 /**
  * Half units for bare "0" and "1" cells, read from the rest of the column: a
  * "1" stands for anything that rounds to 1 at the most significant digits
- * the column shows elsewhere (exact when it shows full precision), and a "0"
+ * the column shows elsewhere (at D digits, values from 1 - 0.5 10^-D up print
+ * as 1; exact when it shows full precision), and a "0"
  * for anything below the smallest half unit shown elsewhere (fixed decimals:
  * 0.0005 for 3 decimals; exact when the column prints small values in full).
  */
@@ -41,7 +42,7 @@ export function settleBareIntegers(values: Float64Array, halfUnits: Float64Array
     mostDigits = Math.max(mostDigits, significantDigits(values[row] as number, halfUnit));
     smallestHalfUnit = Math.min(smallestHalfUnit, halfUnit);
   }
-  const forOne = mostDigits === 0 || !Number.isFinite(mostDigits) || mostDigits >= 15 ? 0 : 0.5 * 10 ** (1 - mostDigits);
+  const forOne = mostDigits === 0 || !Number.isFinite(mostDigits) || mostDigits >= 15 ? 0 : 0.5 * 10 ** -mostDigits;
   const forZero = Number.isFinite(smallestHalfUnit) ? smallestHalfUnit : 0;
   return halfUnits.map((halfUnit, row) => (halfUnit === BARE_INTEGER ? (values[row] === 1 ? forOne : forZero) : halfUnit));
 }

@@ -45,8 +45,8 @@ export interface AuditReport {
   /** Rows with a p-value but no claimed value, and with a claimed value but no p-value. */
   unclaimed: number;
   claimWithoutP: number;
-  /** The fewest significant digits any claimed value was printed with (null: all exact). */
-  fewestDigits: number | null;
+  /** The most significant digits any claimed value was printed with (null: full precision). */
+  digits: number | null;
   mismatches: RowReport[];
   /** Rows right to their printed digits, but on the other side of alpha. */
   flipped: RowReport[];
@@ -84,13 +84,15 @@ function rowReport(row: number, context: AuditContext): RowReport {
   };
 }
 
-function fewestDigits(claims: AuditContext['claims']): number | null {
-  let fewest = Infinity;
+/** The column's precision: the most significant digits it shows (writers drop trailing zeros, so not the fewest). */
+function printedDigits(claims: AuditContext['claims']): number | null {
+  let most = 0;
   for (let row = 0; row < claims.values.length; row++) {
     const value = claims.values[row] as number;
-    if (!Number.isNaN(value)) fewest = Math.min(fewest, significantDigits(value, claims.halfUnits[row] as number));
+    // A bare 0 or 1 takes its precision from the other values (matching.ts), so it says nothing here.
+    if (!Number.isNaN(value) && value !== 0 && value !== 1) most = Math.max(most, significantDigits(value, claims.halfUnits[row] as number));
   }
-  return Number.isFinite(fewest) ? fewest : null;
+  return most === 0 || most >= 15 ? null : most;
 }
 
 function presentRows(p: Float64Array): number {
@@ -109,7 +111,7 @@ function explanationText(result: AuditResult, context: AuditContext, stated: Tri
       const first = comparison.flipped[0] as number;
       const row = rowReport(first, context);
       const flips = comparison.flipped.length;
-      return `the values match ${token} to the digits printed, but they were rounded to as few as ${digitsText(digits)}, and ${flips === 1 ? '1 of them falls' : `${flips} of them fall`} on the other side of alpha = ${context.alpha} from the exact value${flips === 1 ? '' : 's'} (line ${row.line}: printed ${row.claimed}, exact ${row.recomputed}); keep more digits, or decide on the exact values`;
+      return `the values match ${token} to the digits printed, but they were rounded to ${digitsText(digits)}, and ${flips === 1 ? '1 of them falls' : `${flips} of them fall`} on the other side of alpha = ${context.alpha} from the exact value${flips === 1 ? '' : 's'} (line ${row.line}: printed ${shown(row.claimed)}, exact ${shownBeside(row.recomputed, row.claimed)}); keep more digits, or decide on the exact values`;
     }
     case 'method':
       return `the values are ${token}, not ${statedToken}: ${reproduces} (families and tests as stated)`;
@@ -141,7 +143,7 @@ function explanationText(result: AuditResult, context: AuditContext, stated: Tri
 export function auditReport(result: AuditResult, context: AuditContext): AuditReport {
   const { stated, explanation } = result;
   const comparison = stated.comparison;
-  const digits = fewestDigits(context.claims);
+  const digits = printedDigits(context.claims);
   const matches = result.fittingMethods.length > 0 && explanation?.kind !== 'rounding';
   const verdict = matches && (!context.statedMethod || result.fittingMethods.includes(context.statedMethod)) ? 'match' : 'mismatch';
   return {
@@ -156,7 +158,7 @@ export function auditReport(result: AuditResult, context: AuditContext): AuditRe
     matched: comparison.matched,
     unclaimed: comparison.unclaimed.length,
     claimWithoutP: comparison.claimWithoutP.length,
-    fewestDigits: digits,
+    digits,
     mismatches: [...comparison.mismatched, ...comparison.unclaimed, ...comparison.claimWithoutP]
       .sort((a, b) => a - b)
       .slice(0, context.listed)
@@ -181,6 +183,16 @@ function digitsText(digits: number | null): string {
   return digits === 1 ? '1 significant digit' : `${digits} significant digits`;
 }
 
+/**
+ * A recomputed value with enough digits to tell it from the claimed one (at
+ * least six; one more than the claim shows); the JSON report keeps every digit.
+ */
+function shownBeside(value: number | null, claimed: number | null): string {
+  if (value === null) return '(none)';
+  const claimedDigits = claimed === null ? 0 : String(claimed).replace(/e.*$/, '').replace(/^[0.]+/, '').replace('.', '').length;
+  return String(Number(value.toPrecision(Math.min(17, Math.max(6, claimedDigits + 1)))));
+}
+
 function shown(value: number | null): string {
   return value === null ? '(none)' : String(value);
 }
@@ -193,14 +205,14 @@ export function auditText(report: AuditReport, context: AuditContext): string {
   lines.push(`audit of column ${JSON.stringify(report.column)} in ${context.source}: ${families}, m = ${m}, alpha = ${report.alpha}`);
   const also = report.matchingMethods.filter((token) => token !== report.method);
   const alsoText = also.length > 0 ? ` (so do ${also.join(', ')}: with these p-values they coincide)` : '';
-  lines.push(`${report.method} reproduces ${report.matched} of ${report.compared} claimed values${report.fewestDigits === null ? '' : `, printed to as few as ${digitsText(report.fewestDigits)}`}${report.matched === report.compared ? alsoText : ''}`);
+  lines.push(`${report.method} reproduces ${report.matched} of ${report.compared} claimed values${report.digits === null ? ' (printed at full precision)' : `, printed to ${digitsText(report.digits)}`}${report.matched === report.compared ? alsoText : ''}`);
   if (report.unclaimed > 0) lines.push(`${report.unclaimed} rows have a p-value but no claimed value`);
   if (report.claimWithoutP > 0) lines.push(`${report.claimWithoutP} rows have a claimed value but no p-value`);
   if (report.mismatches.length > 0) {
     const total = report.compared - report.matched + report.unclaimed + report.claimWithoutP;
     lines.push(`first mismatches (${report.mismatches.length} of ${total}):`);
     for (const row of report.mismatches) {
-      lines.push(`  line ${row.line}: p ${Number.isNaN(row.p) ? '(missing)' : row.p}, claimed ${shown(row.claimed)}, recomputed ${shown(row.recomputed)}`);
+      lines.push(`  line ${row.line}: p ${Number.isNaN(row.p) ? '(missing)' : row.p}, claimed ${shown(row.claimed)}, recomputed ${shownBeside(row.recomputed, row.claimed)}`);
     }
   }
   if (report.explanation) lines.push(`most likely: ${report.explanation.text}`);
