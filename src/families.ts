@@ -5,6 +5,7 @@
 // and every method runs on the same sorted values. Nothing but typed arrays
 // is allocated per row.
 
+import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings } from './methods.js';
 import { ascendingOrder, gather } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
@@ -26,6 +27,8 @@ export interface FamilyOutcome {
   readonly rejected: number;
   /** The largest raw p-value among the rejected rows; null when none. */
   readonly threshold: number | null;
+  /** The estimate of the share of true nulls, for methods that use one (storey); else null. */
+  readonly pi0: Pi0Estimate | null;
 }
 
 export interface WithinFamilies {
@@ -109,7 +112,7 @@ export function adjustWithinFamilies(
     const sorted = gather(segment, order);
     outcomes.push(
       methods.map((method, k) => {
-        const values = method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS).adjusted;
+        const { adjusted: values, pi0 } = method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS);
         const target = adjusted[k];
         let rejected = 0;
         let threshold = -1;
@@ -127,6 +130,7 @@ export function adjustWithinFamilies(
           m,
           rejected,
           threshold: rejected > 0 ? threshold : null,
+          pi0: pi0 ?? null,
         };
       }),
     );

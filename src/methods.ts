@@ -7,6 +7,9 @@ import { benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
 import { bonferroniSorted } from './procedures/bonferroni.js';
 import { hochbergSorted } from './procedures/hochberg.js';
 import { holmSorted } from './procedures/holm.js';
+import { bkySorted } from './procedures/bky.js';
+import { storeyQValuesSorted } from './procedures/storey.js';
+import { DEFAULT_PI0_SETTINGS, type Pi0Estimate, type Pi0Settings, estimatePi0 } from './estimators/pi0.js';
 import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
@@ -25,13 +28,18 @@ export interface FamilyInput {
 export interface FamilyAdjustment {
   /** Adjusted p-values in the order of FamilyInput.sorted. */
   readonly adjusted: Float64Array;
+  /** The estimate of the share of true nulls, for procedures that use one. */
+  readonly pi0?: Pi0Estimate;
 }
 
 /** Settings some procedures take; one object shared by all methods. */
 // Procedures with tuning (pi0 estimators, seeds) add their fields here.
-export interface MethodSettings {}
+export interface MethodSettings {
+  /** How the storey method estimates pi0. */
+  readonly pi0: Pi0Settings;
+}
 
-export const DEFAULT_SETTINGS: MethodSettings = {};
+export const DEFAULT_SETTINGS: MethodSettings = { pi0: DEFAULT_PI0_SETTINGS };
 
 interface MethodEntry {
   /** What users type in --methods; also names the output columns. */
@@ -101,6 +109,27 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
     run: plain(benjaminiYekutieliSorted),
+  },
+  {
+    token: 'storey',
+    name: 'Storey q-values',
+    controls: 'FDR',
+    dependence: 'independent or positively dependent',
+    steps: 'step-up',
+    source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
+    run: (family, settings) => {
+      const pi0 = estimatePi0(family.sorted, family.m, settings.pi0);
+      return { adjusted: storeyQValuesSorted(family.sorted, family.m, pi0.value), pi0 };
+    },
+  },
+  {
+    token: 'bky',
+    name: 'Benjamini-Krieger-Yekutieli two-stage',
+    controls: 'FDR',
+    dependence: 'independent',
+    steps: 'step-up',
+    source: 'Benjamini, Krieger & Yekutieli (2006), Biometrika 93:491-507',
+    run: plain(bkySorted),
   },
 ];
 

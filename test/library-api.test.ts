@@ -4,7 +4,7 @@ import * as famwise from '../src/index.js';
 
 describe('library API', () => {
   it('exposes the procedures, the registry and within-family adjustment', () => {
-    expect(famwise.METHOD_TOKENS).toEqual(['bonferroni', 'holm', 'hochberg', 'bh', 'by']);
+    expect(famwise.METHOD_TOKENS).toEqual(['bonferroni', 'holm', 'hochberg', 'bh', 'by', 'storey', 'bky']);
     expect(Array.from(famwise.adjustHolm(Float64Array.of(0.01, 0.04, 0.03)))).toEqual([0.03, 0.06, 0.06]);
     const result = famwise.adjustWithinFamilies(Float64Array.of(0.01, 0.02), famwise.singleFamily(2), famwise.METHODS, { alpha: 0.05 });
     expect(result.adjusted).toHaveLength(famwise.METHODS.length);

@@ -49,6 +49,9 @@ const FLAGS: Record<string, string> = {
   output: '--output',
   summary: '--summary',
   format: '--format',
+  pi0: '--pi0',
+  pi0Lambda: '--pi0-lambda',
+  pi0Seed: '--pi0-seed',
 };
 
 /** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */
