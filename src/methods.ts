@@ -118,6 +118,8 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
     run: (family, settings) => {
+      // A family with no tests has nothing to estimate pi0 from, and nothing to adjust.
+      if (family.m === 0) return { adjusted: new Float64Array(0) };
       const pi0 = estimatePi0(family.sorted, family.m, settings.pi0);
       return { adjusted: storeyQValuesSorted(family.sorted, family.m, pi0.value), pi0 };
     },

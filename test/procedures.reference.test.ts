@@ -30,7 +30,8 @@ describe('agreement with R stats::p.adjust to 1e-12 relative', () => {
     expect(reference.provenance.version).toMatch(/^R version/);
   });
   for (const referenceCase of reference.cases) {
-    for (const method of METHODS) {
+    // p.adjust has no adaptive procedures (storey, bky): their references are in their own specs.
+    for (const method of METHODS.filter((candidate) => candidate.token in referenceCase.adjusted)) {
       it(`${method.token}: ${referenceCase.name}`, () => {
         const present = referenceCase.p.flatMap((value, i) => (value === null ? [] : [i]));
         const p = Float64Array.from(present, (i) => referenceCase.p[i] as number);

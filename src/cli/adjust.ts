@@ -17,7 +17,7 @@ warning that is printed even with --quiet.
 
 Examples:
   famwise adjust results.csv --methods holm,bh -o adjusted.csv
-  famwise adjust screen.tsv --methods storey,bky --pi0 spline --summary summary.json
+  famwise adjust screen.tsv --methods storey,bky --pi0 spline
   zcat scan.tsv.gz | famwise adjust --family chrom --methods bh > adjusted.tsv
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
@@ -119,7 +119,7 @@ export function adjustCommand(): Command {
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
-    .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true nulls: ${PI0_ESTIMATORS.join(', ')} (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
+    .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true null hypotheses (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
     .option('--pi0-lambda <value>', `the tuning value of --pi0 fixed: pi0 = #{p > value} / (m (1 - value)) (default: ${DEFAULT_PI0_SETTINGS.lambda})`)
     .option('--pi0-seed <n>', `the seed of the resampling in --pi0 bootstrap-mse, a whole number (default: ${DEFAULT_PI0_SETTINGS.seed})`)
     .option('-q, --quiet', 'print no summary or notes on standard error (pi0 warnings are still printed)')

@@ -24,6 +24,7 @@
 // Royal Statistical Society B 66:187-205, section 6 (the grid and the
 // mean-squared-error criterion as we remember them; B = 100 is our choice).
 
+import { seededUniform } from '../random.js';
 import { pi0AtLambda } from './pi0-lambda.js';
 
 /** lambda = 0, 0.05, ..., 0.95, each computed as k / 20. */
@@ -31,18 +32,6 @@ export const BOOTSTRAP_LAMBDAS: Float64Array = Float64Array.from({ length: 20 },
 
 /** Resamples drawn; enough that the chosen lambda rarely changes with the seed for m in the thousands. */
 export const BOOTSTRAP_RESAMPLES = 100;
-
-/** A seeded stream of uniform numbers in [0, 1) (mulberry32: 32 bits of state, fast, well mixed). */
-export function seededUniform(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let mixed = state;
-    mixed = Math.imul(mixed ^ (mixed >>> 15), mixed | 1);
-    mixed ^= mixed + Math.imul(mixed ^ (mixed >>> 7), mixed | 61);
-    return ((mixed ^ (mixed >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** For each present p-value, how many grid lambdas lie strictly below it (so p > lambda_k for k < bin). */
 function gridBins(sorted: Float64Array, lambdas: Float64Array): Uint8Array {
