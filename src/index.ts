@@ -6,8 +6,36 @@ export { adjustBenjaminiYekutieli, benjaminiYekutieliSorted, harmonicSum } from 
 export { adjustBonferroni, bonferroniSorted } from './procedures/bonferroni.js';
 export { adjustHochberg, hochbergSorted } from './procedures/hochberg.js';
 export { adjustHolm, holmSorted } from './procedures/holm.js';
+export { adjustStorey, storeyQValuesSorted } from './procedures/storey.js';
+export { adjustBky, bkySorted } from './procedures/bky.js';
+export {
+  estimatePi0,
+  PI0_ESTIMATORS,
+  DEFAULT_PI0_SETTINGS,
+  PI0_MIN_TESTS,
+  type Pi0Estimate,
+  type Pi0EstimatorName,
+  type Pi0Settings,
+} from './estimators/pi0.js';
+export { pi0AtLambda } from './estimators/pi0-lambda.js';
+export { pi0Spline, pi0SplineCurve, SPLINE_LAMBDAS } from './estimators/pi0-spline.js';
+export { pi0Bootstrap, BOOTSTRAP_LAMBDAS, BOOTSTRAP_RESAMPLES } from './estimators/pi0-bootstrap.js';
+export { smoothingSplineFit, smoothingForDegreesOfFreedom, splineDegreesOfFreedom } from './estimators/smoothing-spline.js';
+export { seededUniform } from './random.js';
 export { ascendingOrder, adjustInInputOrder, type SortedKernel } from './procedures/sorting.js';
-export { METHODS, METHOD_TOKENS, findMethod, columnNames, type Method, type ErrorRate, type StepKind } from './methods.js';
+export {
+  METHODS,
+  METHOD_TOKENS,
+  DEFAULT_SETTINGS,
+  findMethod,
+  columnNames,
+  type Method,
+  type MethodSettings,
+  type FamilyAdjustment,
+  type FamilyInput,
+  type ErrorRate,
+  type StepKind,
+} from './methods.js';
 export {
   adjustWithinFamilies,
   singleFamily,
@@ -17,5 +45,5 @@ export {
   type WithinFamilies,
   type WithinFamiliesOptions,
 } from './families.js';
-export { summarize, type Summary, type SummaryRow } from './summary.js';
+export { summarize, pi0Warnings, type Summary, type SummaryRow } from './summary.js';
 export { readPValue, MISSING_MARKS } from './io/p-value-text.js';

@@ -9,4 +9,17 @@ describe('library API', () => {
     const result = famwise.adjustWithinFamilies(Float64Array.of(0.01, 0.02), famwise.singleFamily(2), famwise.METHODS, { alpha: 0.05 });
     expect(result.adjusted).toHaveLength(famwise.METHODS.length);
   });
+
+  it('exposes storey q-values with their pi0 estimate, bky, and the pi0 estimators', () => {
+    // 20 p-values: 10 of 0.001 and 10 spread above 0.5 (0.525, 0.575, ..., 0.975):
+    // pi0(0.5) = 10 / (20 * 0.5) = 1.
+    const p = Float64Array.from({ length: 20 }, (_, i) => (i < 10 ? 0.001 : 0.5 + (i - 9.5) / 20));
+    const { qValues, pi0 } = famwise.adjustStorey(p);
+    expect(pi0).toEqual({ value: 1, estimator: 'fixed', tuning: { lambda: 0.5 }, fallback: null });
+    expect(Array.from(qValues)).toEqual(Array.from(famwise.adjustBenjaminiHochberg(p)));
+    const spline = famwise.adjustStorey(p, 40, { ...famwise.DEFAULT_PI0_SETTINGS, estimator: 'spline' });
+    expect(spline.pi0.estimator).toBe('spline');
+    expect(famwise.adjustBky(p)).toHaveLength(20);
+    expect(famwise.PI0_ESTIMATORS).toEqual(['fixed', 'spline', 'bootstrap-mse']);
+  });
 });

@@ -25,7 +25,10 @@
 // Tibshirani, R. (2003). Statistical significance for genomewide studies.
 // PNAS 100:9440-9445.
 
+import { DEFAULT_PI0_SETTINGS, type Pi0Estimate, type Pi0Settings, estimatePi0 } from '../estimators/pi0.js';
 import { benjaminiHochbergSorted } from './benjamini-hochberg.js';
+import { ascendingOrder, gather, scatter } from './sorting.js';
+import { checkedTestCount } from './validate.js';
 
 /**
  * q-values of ascending p-values for a given pi0 in (0, 1]; m may exceed
@@ -36,4 +39,17 @@ export function storeyQValuesSorted(sorted: Float64Array, m: number, pi0: number
   const q = benjaminiHochbergSorted(sorted, m);
   for (let i = 0; i < q.length; i++) q[i] *= pi0;
   return q;
+}
+
+/**
+ * q-values in input order, with pi0 estimated from p as `settings` say (by
+ * default the fixed lambda = 0.5); m may exceed p.length (absent tests count
+ * as p = 1). The estimate is returned with them, fallback reason included.
+ */
+export function adjustStorey(p: Float64Array, m: number = p.length, settings: Pi0Settings = DEFAULT_PI0_SETTINGS): { qValues: Float64Array; pi0: Pi0Estimate } {
+  const tests = checkedTestCount(p, m);
+  const order = ascendingOrder(p);
+  const sorted = gather(p, order);
+  const pi0 = estimatePi0(sorted, tests, settings);
+  return { qValues: scatter(storeyQValuesSorted(sorted, tests, pi0.value), order), pi0 };
 }
