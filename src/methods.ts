@@ -50,6 +50,8 @@ interface MethodEntry {
   readonly dependence: string;
   readonly steps: StepKind;
   readonly source: string;
+  /** Whether the method estimates pi0 with MethodSettings.pi0 (so the pi0 options apply to it). */
+  readonly estimatesPi0?: boolean;
   /** Adjusts one family. */
   readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
 }
@@ -117,6 +119,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'independent or positively dependent',
     steps: 'step-up',
     source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
+    estimatesPi0: true,
     run: (family, settings) => {
       // A family with no tests has nothing to estimate pi0 from, and nothing to adjust.
       if (family.m === 0) return { adjusted: new Float64Array(0) };

@@ -79,6 +79,7 @@ describe('fallback warnings are never silent', () => {
     const small = 'g,p\na,0.01\na,0.02\nb,0.5\n' + Array.from({ length: 12 }, (_, i) => `c,${(i + 1) / 100}`).join('\n') + '\n';
     const run = famwise(['adjust', '--family', 'g', '--methods', 'storey'], small);
     expect(run.stderr).toMatch(/famwise: warning: g=a, storey: pi0 is not estimated from 2 tests/);
+    expect(run.stderr).toMatch(/famwise: warning: g=b, storey: pi0 is not estimated from 1 test \(/);
     expect(run.stderr).toMatch(/famwise: warning: g=c, storey: the fixed estimate of pi0 is 0 at lambda = 0\.5: too few p-values above lambda/);
     expect(run.stderr).toMatch(/g=c\s+storey\s+.*1 fixed lambda=0\.5 \(fallback\)/);
   });
@@ -86,8 +87,8 @@ describe('fallback warnings are never silent', () => {
 
 describe('pi0 option errors name the option (exit status 2)', () => {
   it.each([
-    [['--methods', 'bh', '--pi0', 'spline'], /^famwise: --pi0: only the storey method estimates pi0 \(bky has its own first stage\); add storey to --methods\n/],
-    [['--methods', 'bky', '--pi0-seed', '3'], /^famwise: --pi0-seed: only the storey method estimates pi0/],
+    [['--methods', 'bh', '--pi0', 'spline'], /^famwise: --pi0: sets how pi0 is estimated, which only storey does \(bky has its own first stage\); add it to --methods\n/],
+    [['--methods', 'bky', '--pi0-seed', '3'], /^famwise: --pi0-seed: sets how pi0 is estimated, which only storey does/],
     [['--methods', 'storey', '--pi0', 'spline', '--pi0-lambda', '0.3'], /^famwise: --pi0-lambda: applies to --pi0 fixed only; --pi0 spline chooses its own lambda\n/],
     [['--methods', 'storey', '--pi0-seed', '3'], /^famwise: --pi0-seed: applies to --pi0 bootstrap-mse only/],
     [['--methods', 'storey', '--pi0-lambda', '1'], /^famwise: --pi0-lambda "1": needs a tuning value from 0 up to \(not including\) 1, such as 0\.5\n/],

@@ -35,7 +35,7 @@ import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
-import { METHOD_TOKENS, type Method, type MethodSettings, columnNames, findMethod } from '../methods.js';
+import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
 import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
@@ -214,8 +214,9 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
 function methodSettings(options: AdjustOptions): MethodSettings {
   const estimator = options.pi0 ?? DEFAULT_PI0_SETTINGS.estimator;
   const given = [options.pi0 !== undefined && '--pi0', options.pi0Lambda !== undefined && '--pi0-lambda', options.pi0Seed !== undefined && '--pi0-seed'].filter(Boolean);
-  if (given.length > 0 && !options.methods.some((method) => method.token === 'storey')) {
-    throw new UsageError(`${given[0]}: only the storey method estimates pi0 (bky has its own first stage); add storey to --methods`);
+  if (given.length > 0 && !options.methods.some((method) => method.estimatesPi0)) {
+    const users = METHODS.filter((method) => method.estimatesPi0).map((method) => method.token);
+    throw new UsageError(`${given[0]}: sets how pi0 is estimated, which only ${users.join(', ')} does (bky has its own first stage); add it to --methods`);
   }
   if (options.pi0Lambda !== undefined && estimator !== 'fixed') {
     throw new UsageError(`--pi0-lambda: applies to --pi0 fixed only; --pi0 ${estimator} chooses its own lambda`);

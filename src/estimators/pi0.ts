@@ -81,7 +81,7 @@ export function estimatePi0(sorted: Float64Array, m: number, settings: Pi0Settin
     fallback: `${reason}; pi0 = ${PI0_FALLBACK} used instead, as Benjamini-Hochberg assumes`,
   });
   if (m < PI0_MIN_TESTS) {
-    return fallback(requestedTuning(settings), `pi0 is not estimated from ${m} tests (the ${estimator} estimator needs at least ${PI0_MIN_TESTS})`);
+    return fallback(requestedTuning(settings), `pi0 is not estimated from ${m} ${m === 1 ? 'test' : 'tests'} (the ${estimator} estimator needs at least ${PI0_MIN_TESTS})`);
   }
   const { value, tuning } = rawEstimate(sorted, m, settings);
   if (!(value > 0)) {

@@ -9,10 +9,10 @@
 //      If r1 = 0, reject nothing; if r1 = m, reject everything.
 //   2. Otherwise estimate m0 = m - r1 and run BH at q* = q' m / m0; its
 //      rejections are the answer.
-// It controls the FDR at alpha for independent tests (Theorem 1 of the
-// paper), and in the authors' simulations it kept close to alpha under
-// positive correlation; with strong correlation or arbitrary dependence use
-// BH or BY instead.
+// The paper proves that it controls the FDR at alpha for independent tests;
+// in the authors' simulations it also kept close to alpha under positive
+// correlation. With strong correlation or arbitrary dependence use BH or BY
+// instead.
 //
 // The adjusted value of a hypothesis is the smallest alpha at which the
 // procedure rejects it. That is well defined because the rejections grow
