@@ -5,6 +5,7 @@
 // and every method runs on the same sorted values. Nothing but typed arrays
 // is allocated per row.
 
+import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
 import { normalisedWeights } from './procedures/weights.js';
 import { ascendingOrder, gather } from './procedures/sorting.js';
@@ -27,6 +28,8 @@ export interface FamilyOutcome {
   readonly rejected: number;
   /** The largest raw p-value among the rejected rows; null when none. */
   readonly threshold: number | null;
+  /** The estimate of the share of true nulls, for methods that use one (storey); else null. */
+  readonly pi0: Pi0Estimate | null;
 }
 
 export interface WithinFamilies {
@@ -129,9 +132,9 @@ export function adjustWithinFamilies(
     const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);
     outcomes.push(
       methods.map((method, k) => {
-        const values = sortedWeights
-          ? (method.adjustWeighted as WeightedKernel)(sorted, sortedWeights, m)
-          : method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS).adjusted;
+        const { adjusted: values, pi0 } = sortedWeights
+          ? { adjusted: (method.adjustWeighted as WeightedKernel)(sorted, sortedWeights, m), pi0: undefined }
+          : method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS);
         const target = adjusted[k];
         let rejected = 0;
         let threshold = -1;
@@ -149,6 +152,7 @@ export function adjustWithinFamilies(
           m,
           rejected,
           threshold: rejected > 0 ? threshold : null,
+          pi0: pi0 ?? null,
         };
       }),
     );

@@ -9,20 +9,39 @@ export { adjustHolm, holmSorted } from './procedures/holm.js';
 export { adjustHolmSidak, holmSidakSorted } from './procedures/holm-sidak.js';
 export { adjustHommel, hommelSorted } from './procedures/hommel.js';
 export { adjustSidak, sidakSorted } from './procedures/sidak.js';
+export { adjustStorey, storeyQValuesSorted } from './procedures/storey.js';
+export { adjustBky, bkySorted } from './procedures/bky.js';
+export {
+  estimatePi0,
+  PI0_ESTIMATORS,
+  DEFAULT_PI0_SETTINGS,
+  PI0_MIN_TESTS,
+  type Pi0Estimate,
+  type Pi0EstimatorName,
+  type Pi0Settings,
+} from './estimators/pi0.js';
+export { pi0AtLambda } from './estimators/pi0-lambda.js';
+export { pi0Spline, pi0SplineCurve, SPLINE_LAMBDAS } from './estimators/pi0-spline.js';
+export { pi0Bootstrap, BOOTSTRAP_LAMBDAS, BOOTSTRAP_RESAMPLES } from './estimators/pi0-bootstrap.js';
+export { smoothingSplineFit, smoothingForDegreesOfFreedom, splineDegreesOfFreedom } from './estimators/smoothing-spline.js';
+export { seededUniform } from './random.js';
 export { ascendingOrder, adjustInInputOrder, type SortedKernel } from './procedures/sorting.js';
 export {
   METHODS,
   METHOD_TOKENS,
   WEIGHTED_TOKENS,
   adjustWeighted,
+  DEFAULT_SETTINGS,
   findMethod,
   columnNames,
   type Method,
+  type MethodSettings,
+  type FamilyAdjustment,
+  type FamilyInput,
   type ErrorRate,
   type StepKind,
 } from './methods.js';
 export { normalisedWeights } from './procedures/weights.js';
-export { pi0AtLambda } from './estimators/pi0-lambda.js';
 export {
   adjustWithinFamilies,
   singleFamily,
@@ -33,5 +52,5 @@ export {
   type WithinFamilies,
   type WithinFamiliesOptions,
 } from './families.js';
-export { summarize, type Summary, type SummaryRow } from './summary.js';
+export { summarize, pi0Warnings, type Summary, type SummaryRow } from './summary.js';
 export { readPValue, MISSING_MARKS } from './io/p-value-text.js';

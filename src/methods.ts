@@ -14,6 +14,9 @@ import { weightedBenjaminiHochberg } from './procedures/weighted-benjamini-hochb
 import { weightedBonferroni } from './procedures/weighted-bonferroni.js';
 import { weightedHolm } from './procedures/weighted-holm.js';
 import { normalisedWeights } from './procedures/weights.js';
+import { bkySorted } from './procedures/bky.js';
+import { storeyQValuesSorted } from './procedures/storey.js';
+import { DEFAULT_PI0_SETTINGS, type Pi0Estimate, type Pi0Settings, estimatePi0 } from './estimators/pi0.js';
 import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
@@ -33,6 +36,8 @@ export interface FamilyInput {
 export interface FamilyAdjustment {
   /** Adjusted p-values in the order of FamilyInput.sorted. */
   readonly adjusted: Float64Array;
+  /** The estimate of the share of true nulls, for procedures that use one. */
+  readonly pi0?: Pi0Estimate;
 }
 
 /** A weighted procedure: p-values and weights (mean 1) in the same order, adjusted values in that order. */
@@ -40,9 +45,12 @@ export type WeightedKernel = (p: Float64Array, weights: Float64Array, m: number)
 
 /** Settings some procedures take; one object shared by all methods. */
 // Procedures with tuning (pi0 estimators, seeds) add their fields here.
-export interface MethodSettings {}
+export interface MethodSettings {
+  /** How the storey method estimates pi0. */
+  readonly pi0: Pi0Settings;
+}
 
-export const DEFAULT_SETTINGS: MethodSettings = {};
+export const DEFAULT_SETTINGS: MethodSettings = { pi0: DEFAULT_PI0_SETTINGS };
 
 interface MethodEntry {
   /** What users type in --methods; also names the output columns. */
@@ -53,6 +61,8 @@ interface MethodEntry {
   readonly dependence: string;
   readonly steps: StepKind;
   readonly source: string;
+  /** Whether the method estimates pi0 with MethodSettings.pi0 (so the pi0 options apply to it). */
+  readonly estimatesPi0?: boolean;
   /** Adjusts one family. */
   readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
   /** The weighted form, for procedures that have one. */
@@ -144,6 +154,30 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
     run: plain(benjaminiYekutieliSorted),
+  },
+  {
+    token: 'storey',
+    name: 'Storey q-values',
+    controls: 'FDR',
+    dependence: 'independent or positively dependent',
+    steps: 'step-up',
+    source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
+    estimatesPi0: true,
+    run: (family, settings) => {
+      // A family with no tests has nothing to estimate pi0 from, and nothing to adjust.
+      if (family.m === 0) return { adjusted: new Float64Array(0) };
+      const pi0 = estimatePi0(family.sorted, family.m, settings.pi0);
+      return { adjusted: storeyQValuesSorted(family.sorted, family.m, pi0.value), pi0 };
+    },
+  },
+  {
+    token: 'bky',
+    name: 'Benjamini-Krieger-Yekutieli two-stage',
+    controls: 'FDR',
+    dependence: 'independent',
+    steps: 'step-up',
+    source: 'Benjamini, Krieger & Yekutieli (2006), Biometrika 93:491-507',
+    run: plain(bkySorted),
   },
 ];
 

@@ -1,6 +1,7 @@
 // The rejection summary: one row per family and method, as data (for the
 // JSON file) and as an aligned text table (for the terminal).
 
+import type { Pi0Estimate } from './estimators/pi0.js';
 import type { WithinFamilies } from './families.js';
 import type { Method } from './methods.js';
 import { alignedTable } from './text-table.js';
@@ -15,6 +16,8 @@ export interface SummaryRow {
   rejected: number;
   /** The largest raw p-value among the rejected, or null when nothing is rejected. */
   threshold: number | null;
+  /** The estimate of the share of true nulls, for methods that use one; else null. */
+  pi0: Pi0Estimate | null;
 }
 
 /** How prior weights were used, when they were. */
@@ -73,8 +76,17 @@ function shortNumber(value: number | null): string {
   return value === 0 ? '0' : String(Number(value.toPrecision(4)));
 }
 
+/** The pi0 estimate, its estimator and tuning, in one cell: `0.8123 fixed lambda=0.5`; a fallback is marked. */
+function pi0Text(pi0: Pi0Estimate | null): string {
+  if (pi0 === null) return '-';
+  const tuning = Object.entries(pi0.tuning).map(([name, value]) => `${name}=${value}`);
+  return [shortNumber(pi0.value), pi0.estimator, ...tuning, ...(pi0.fallback === null ? [] : ['(fallback)'])].join(' ');
+}
+
 export function summaryText(summary: Summary): string {
   const header = ['family', 'method', 'tested', 'missing', 'm', `rejected at ${summary.alpha}`, 'largest rejected p'];
+  // The pi0 column appears only when a method in the run estimates pi0.
+  const withPi0 = summary.rows.some((row) => row.pi0 !== null);
   const rows = summary.rows.map((row) => [
     familyLabel(row.family),
     row.method,
@@ -83,8 +95,16 @@ export function summaryText(summary: Summary): string {
     String(row.m),
     String(row.rejected),
     shortNumber(row.threshold),
+    ...(withPi0 ? [pi0Text(row.pi0)] : []),
   ]);
-  const table = alignedTable(header, rows);
+  const table = alignedTable(withPi0 ? [...header, 'pi0'] : header, rows);
   if (summary.weights === undefined) return table;
   return `${table}weighted by column ${JSON.stringify(summary.weights.column)}, normalised to mean 1 within each family\n`;
+}
+
+/** One line for each family and method whose pi0 estimator fell back, naming both. */
+export function pi0Warnings(summary: Summary): string[] {
+  return summary.rows.flatMap((row) =>
+    row.pi0?.fallback ? [`${familyLabel(row.family)}, ${row.method}: ${row.pi0.fallback}`] : [],
+  );
 }

@@ -160,10 +160,10 @@ describe('families, tests and missing values', () => {
     expect(JSON.parse(readFileSync(summary, 'utf8'))).toEqual({
       alpha: 0.05,
       rows: [
-        { family: { plate: 'A' }, method: 'bh', tested: 3, missing: 0, m: 3, rejected: 3, threshold: 0.04 },
-        { family: { plate: 'A' }, method: 'holm', tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01 },
-        { family: { plate: 'B' }, method: 'bh', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02 },
-        { family: { plate: 'B' }, method: 'holm', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02 },
+        { family: { plate: 'A' }, method: 'bh', tested: 3, missing: 0, m: 3, rejected: 3, threshold: 0.04, pi0: null },
+        { family: { plate: 'A' }, method: 'holm', tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01, pi0: null },
+        { family: { plate: 'B' }, method: 'bh', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02, pi0: null },
+        { family: { plate: 'B' }, method: 'holm', tested: 2, missing: 1, m: 2, rejected: 2, threshold: 0.02, pi0: null },
       ],
     });
     expect(run.stderr).toMatch(/plate=A\s+bh\s+3\s+0\s+3\s+3\s+0\.04/);

@@ -103,9 +103,9 @@ describe('adjustWithinFamilies', () => {
     const family0 = bh.adjust(Float64Array.of(0.01, 0.03, 0.04), 3);
     const family1 = bh.adjust(Float64Array.of(0.2, 0.001), 2);
     expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([family0[0], family1[0], NaN, family0[1], family0[2], family1[1]]);
-    expect(result.outcomes[1]?.[0]).toEqual({ tested: 2, missing: 1, m: 2, rejected: 1, threshold: 0.001 });
+    expect(result.outcomes[1]?.[0]).toEqual({ tested: 2, missing: 1, m: 2, rejected: 1, threshold: 0.001, pi0: null });
     // Holm in family 0: 3 * 0.01 = 0.03, max(2 * 0.03, 0.03) = 0.06, 0.06: one rejection at 0.05.
-    expect(result.outcomes[0]?.[1]).toEqual({ tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01 });
+    expect(result.outcomes[0]?.[1]).toEqual({ tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01, pi0: null });
   });
 
   it('uses --tests as m in every family', () => {
@@ -116,6 +116,6 @@ describe('adjustWithinFamilies', () => {
 
   it('handles a table with no rows', () => {
     const result = adjustWithinFamilies(new Float64Array(0), singleFamily(0), [bh], { alpha: 0.05 });
-    expect(result.outcomes[0]?.[0]).toEqual({ tested: 0, missing: 0, m: 0, rejected: 0, threshold: null });
+    expect(result.outcomes[0]?.[0]).toEqual({ tested: 0, missing: 0, m: 0, rejected: 0, threshold: null, pi0: null });
   });
 });

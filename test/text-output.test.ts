@@ -16,8 +16,8 @@ describe('summary text', () => {
     const text = summaryText({
       alpha: 0.05,
       rows: [
-        { family: null, method: 'bh', tested: 10, missing: 2, m: 10, rejected: 3, threshold: 0.012345678 },
-        { family: null, method: 'holm', tested: 10, missing: 2, m: 10, rejected: 0, threshold: null },
+        { family: null, method: 'bh', tested: 10, missing: 2, m: 10, rejected: 3, threshold: 0.012345678, pi0: null },
+        { family: null, method: 'holm', tested: 10, missing: 2, m: 10, rejected: 0, threshold: null, pi0: null },
       ],
     });
     expect(text).toBe(

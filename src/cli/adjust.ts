@@ -10,8 +10,14 @@ rejections goes to standard error.
 Missing p-values (${MISSING_MARKS.map((mark) => mark || 'empty').join(', ')}) are
 left out of the number of tests and get empty cells.
 
+The storey method (q-values) estimates pi0, the share of true null
+hypotheses, in each family: --pi0 chooses how. When the estimate cannot be
+made (too few tests, or no p-value above lambda) pi0 = 1 is used, with a
+warning that is printed even with --quiet.
+
 Examples:
   famwise adjust results.csv --methods holm,bh -o adjusted.csv
+  famwise adjust screen.tsv --methods storey,bky --pi0 spline
   zcat scan.tsv.gz | famwise adjust --family chrom --methods bh > adjusted.tsv
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
@@ -28,8 +34,9 @@ import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
-import { METHOD_TOKENS, type Method, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
-import { type Summary, familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
+import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
+import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
+import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
 import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
@@ -83,6 +90,18 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   weights: z.string().min(1, 'needs the name or 1-based position of the column of weights').optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
+  pi0: z.enum(PI0_ESTIMATORS, { message: `accepts ${PI0_ESTIMATORS.join(', ')}` }).optional(),
+  pi0Lambda: z
+    .string()
+    .refine((text) => text.trim() !== '' && Number(text) >= 0 && Number(text) < 1, 'needs a tuning value from 0 up to (not including) 1, such as 0.5')
+    .transform(Number)
+    .optional(),
+  pi0Seed: z
+    .string()
+    .regex(/^\d+$/, 'needs a whole number from 0 to 4294967295')
+    .transform(Number)
+    .refine((seed) => seed <= 0xffffffff, 'needs a whole number from 0 to 4294967295')
+    .optional(),
 });
 
 type AdjustOptions = z.output<typeof adjustOptionsSchema>;
@@ -102,7 +121,10 @@ export function adjustCommand(): Command {
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
-    .option('-q, --quiet', 'print no summary or notes on standard error')
+    .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true null hypotheses (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
+    .option('--pi0-lambda <value>', `the tuning value of --pi0 fixed: pi0 = #{p > value} / (m (1 - value)) (default: ${DEFAULT_PI0_SETTINGS.lambda})`)
+    .option('--pi0-seed <n>', `the seed of the resampling in --pi0 bootstrap-mse, a whole number (default: ${DEFAULT_PI0_SETTINGS.seed})`)
+    .option('-q, --quiet', 'print no summary or notes on standard error (pi0 warnings are still printed)')
     .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
     .action(async (file: string | undefined, raw: Record<string, unknown>) => {
       await runAdjust(file, parseOptions(adjustOptionsSchema, raw));
@@ -204,10 +226,32 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
   return { table, summary };
 }
 
+/** The pi0 settings from --pi0, --pi0-lambda and --pi0-seed; options that would have no effect are refused. */
+function methodSettings(options: AdjustOptions): MethodSettings {
+  const estimator = options.pi0 ?? DEFAULT_PI0_SETTINGS.estimator;
+  const given = [options.pi0 !== undefined && '--pi0', options.pi0Lambda !== undefined && '--pi0-lambda', options.pi0Seed !== undefined && '--pi0-seed'].filter(Boolean);
+  if (given.length > 0 && !options.methods.some((method) => method.estimatesPi0)) {
+    const users = METHODS.filter((method) => method.estimatesPi0).map((method) => method.token);
+    throw new UsageError(`${given[0]}: sets how pi0 is estimated, which only ${users.join(', ')} does (bky has its own first stage); add it to --methods`);
+  }
+  if (options.pi0Lambda !== undefined && estimator !== 'fixed') {
+    throw new UsageError(`--pi0-lambda: applies to --pi0 fixed only; --pi0 ${estimator} chooses its own lambda`);
+  }
+  if (options.pi0Seed !== undefined && estimator !== 'bootstrap-mse') {
+    throw new UsageError(`--pi0-seed: applies to --pi0 bootstrap-mse only, the one estimator that draws random resamples`);
+  }
+  const pi0: Pi0Settings = {
+    estimator,
+    lambda: options.pi0Lambda ?? DEFAULT_PI0_SETTINGS.lambda,
+    seed: options.pi0Seed ?? DEFAULT_PI0_SETTINGS.seed,
+  };
+  return { pi0 };
+}
+
 /** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
-function adjustOrExplain(table: Table, methods: readonly Method[], options: AdjustOptions, familyColumnNames: readonly string[]): WithinFamilies {
+function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodSettings, familyColumnNames: readonly string[]): WithinFamilies {
   try {
-    return adjustWithinFamilies(table.p, table.families, methods, { alpha: options.alpha, tests: options.tests, weights: table.weights });
+    return adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings });
   } catch (error) {
     if (!(error instanceof TooFewTestsError || error instanceof ZeroWeightsError)) throw error;
     const values = table.familyValues[error.family] ?? [];
@@ -258,6 +302,7 @@ async function writeOutputs(
 
 async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
   checkWeightsUsage(options);
+  const settings = methodSettings(options);
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const source = fromValues ?? (await openInput(file));
@@ -278,7 +323,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   }
 
   const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
-  const result = adjustOrExplain(table, options.methods, options, familyColumnNames);
+  const result = adjustOrExplain(table, options, settings, familyColumnNames);
   const weightsName = table.weightsColumn === undefined ? undefined : (table.shape.names?.[table.weightsColumn] ?? String(table.weightsColumn + 1));
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
@@ -289,4 +334,6 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   await writeOutputs(source, table, columns, format, summary, targets);
   if (!options.quiet) process.stderr.write(summaryText(summary));
+  // A fallback changes what the q-values mean, so it is shown even with --quiet.
+  for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);
 }

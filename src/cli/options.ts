@@ -54,6 +54,9 @@ const FLAGS: Record<string, string> = {
   adjustedColumn: '--adjusted-column',
   method: '--method',
   mismatches: '--mismatches',
+  pi0: '--pi0',
+  pi0Lambda: '--pi0-lambda',
+  pi0Seed: '--pi0-seed',
 };
 
 /** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */

@@ -1,14 +1,5 @@
-// A small seeded generator (mulberry32) so that property checks are repeatable.
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// The package's seeded generator (mulberry32) so that property checks are repeatable.
+export { seededUniform as seededRandom } from '../../src/random.js';
 
 /** p-values with the awkward cases mixed in: ties, 0, 1, tiny and subnormal values. */
 export function awkwardPValues(random: () => number, size: number): Float64Array {
