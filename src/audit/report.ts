@@ -206,8 +206,9 @@ export function auditText(report: AuditReport, context: AuditContext): string {
   const also = report.matchingMethods.filter((token) => token !== report.method);
   const alsoText = also.length > 0 ? ` (so do ${also.join(', ')}: with these p-values they coincide)` : '';
   lines.push(`${report.method} reproduces ${report.matched} of ${report.compared} claimed values${report.digits === null ? ' (printed at full precision)' : `, printed to ${digitsText(report.digits)}`}${report.matched === report.compared ? alsoText : ''}`);
-  if (report.unclaimed > 0) lines.push(`${report.unclaimed} rows have a p-value but no claimed value`);
-  if (report.claimWithoutP > 0) lines.push(`${report.claimWithoutP} rows have a claimed value but no p-value`);
+  const rows = (count: number): string => (count === 1 ? '1 row has' : `${count} rows have`);
+  if (report.unclaimed > 0) lines.push(`${rows(report.unclaimed)} a p-value but no claimed value`);
+  if (report.claimWithoutP > 0) lines.push(`${rows(report.claimWithoutP)} a claimed value but no p-value`);
   if (report.mismatches.length > 0) {
     const total = report.compared - report.matched + report.unclaimed + report.claimWithoutP;
     lines.push(`first mismatches (${report.mismatches.length} of ${total}):`);

@@ -38,7 +38,7 @@ import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estim
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
-import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
+import { addInputOptions, alphaSchema, testsSchema, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
 
 /** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
@@ -65,17 +65,8 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
       if (repeated) context.addIssue({ code: 'custom', message: `${quoteText(repeated)} is given twice` });
     })
     .transform((tokens) => tokens.map((token) => findMethod(token) as Method)),
-  alpha: z
-    .string()
-    .default('0.05')
-    .transform(Number)
-    .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05 (for 5%)'),
-  tests: z
-    .string()
-    .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
-    .transform(Number)
-    .refine((tests) => tests >= 1 && Number.isSafeInteger(tests), 'needs a whole number from 1 to 9007199254740991')
-    .optional(),
+  alpha: alphaSchema,
+  tests: testsSchema,
   values: z
     .array(z.string())
     .superRefine((items, context) => {

@@ -27,7 +27,7 @@ import { singleFamily } from '../families.js';
 import { readTable } from '../io/read-table.js';
 import { METHOD_TOKENS, findMethod } from '../methods.js';
 import { CAUTION } from './cautions.js';
-import { addInputOptions, inputOptionsSchema, openInput, parseOptions } from './options.js';
+import { addInputOptions, alphaSchema, testsSchema, inputOptionsSchema, openInput, parseOptions } from './options.js';
 
 const auditOptionsSchema = inputOptionsSchema.extend({
   adjustedColumn: z.string({ message: 'is required: name the column of adjusted p-values to check' }).min(1, 'needs a column name or a 1-based position'),
@@ -37,17 +37,8 @@ const auditOptionsSchema = inputOptionsSchema.extend({
     .refine((token) => findMethod(token) !== undefined, { message: `is not a method; the methods are ${METHOD_TOKENS.join(', ')}` })
     .transform((token) => findMethod(token))
     .optional(),
-  alpha: z
-    .string()
-    .default('0.05')
-    .transform(Number)
-    .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05 (for 5%)'),
-  tests: z
-    .string()
-    .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
-    .transform(Number)
-    .refine((tests) => tests >= 1 && Number.isSafeInteger(tests), 'needs a whole number from 1 to 9007199254740991')
-    .optional(),
+  alpha: alphaSchema,
+  tests: testsSchema,
   mismatches: z
     .string()
     .regex(/^\d+$/, 'needs a whole number of rows to list')

@@ -37,6 +37,21 @@ export const inputOptionsSchema = z.object({
   header: z.boolean().optional(),
 });
 
+/** --alpha, shared by the commands that decide at a level. */
+export const alphaSchema = z
+  .string()
+  .default('0.05')
+  .transform(Number)
+  .refine((alpha) => alpha > 0 && alpha < 1, 'needs a level between 0 and 1, such as 0.05 (for 5%)');
+
+/** --tests, shared by the commands that adjust. */
+export const testsSchema = z
+  .string()
+  .regex(/^\d+$/, 'needs a whole number of tests, at least the number of p-values in each family')
+  .transform(Number)
+  .refine((tests) => tests >= 1 && Number.isSafeInteger(tests), 'needs a whole number from 1 to 9007199254740991')
+  .optional();
+
 const FLAGS: Record<string, string> = {
   pColumn: '--p-column',
   family: '--family',

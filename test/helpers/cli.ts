@@ -1,6 +1,7 @@
 // Runs the built command line (npm test builds it first) as a user would.
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
+import { expect } from 'vitest';
 
 export const CLI = fileURLToPath(new URL('../../dist/cli/main.js', import.meta.url));
 
@@ -24,4 +25,12 @@ export function famwise(args: string[], input?: string | Buffer, cwd?: string): 
     stderr: result.stderr.toString('utf8'),
     stdoutBytes: result.stdout,
   };
+}
+
+/** Runs famwise and checks that it refused: the status, a message on stderr, and nothing on stdout. */
+export function expectRefusal(args: string[], input: string, status: number, message: RegExp): void {
+  const run = famwise(args, input);
+  expect(run.status).toBe(status);
+  expect(run.stderr).toMatch(message);
+  expect(run.stdout).toBe('');
 }
