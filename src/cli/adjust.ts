@@ -33,6 +33,7 @@ import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
+import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
@@ -77,7 +78,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
     .optional(),
   output: z.string().min(1).optional(),
   summary: z.string().min(1).optional(),
-  format: z.enum(['csv', 'tsv', 'table'], { message: 'accepts csv, tsv or table' }).optional(),
+  format: z.enum(['csv', 'tsv', 'jsonl', 'table'], { message: 'accepts csv, tsv, jsonl or table' }).optional(),
   weights: z.string().min(1, 'needs the name or 1-based position of the column of weights').optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
@@ -110,7 +111,7 @@ export function adjustCommand(): Command {
     .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
     .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
-    .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
+    .addOption(new Option('--format <kind>', 'output as csv, tsv, jsonl (one JSON object per row) or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'jsonl', 'table']))
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
     .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true null hypotheses (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
     .option('--pi0-lambda <value>', `the tuning value of --pi0 fixed: pi0 = #{p > value} / (m (1 - value)) (default: ${DEFAULT_PI0_SETTINGS.lambda})`)
@@ -186,8 +187,12 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
   });
 }
 
-function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean): OutputFormat {
+/** The table writers' formats, and JSON lines. */
+type TableFormat = OutputFormat | 'jsonl';
+
+function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean): TableFormat {
   const format = options.format ?? (toTerminal ? 'table' : undefined);
+  if (format === 'jsonl') return 'jsonl';
   if (format === 'table') {
     // Without a header, columns are known by position; the p-values by name.
     const { names, columnCount } = table.shape;
@@ -196,6 +201,15 @@ function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean)
   if (format === 'tsv') return { delimiter: TAB };
   if (format === 'csv') return { delimiter: COMMA };
   return { delimiter: table.shape.delimiter };
+}
+
+/** Each JSON object needs distinct keys: the header's names and the new columns' names. */
+function checkJsonKeys(table: Table, columns: readonly OutputColumn[]): void {
+  const keys = jsonLinesKeys(table.shape, columns);
+  const repeated = keys.find((key, i) => keys.indexOf(key) !== i);
+  if (repeated !== undefined) {
+    throw new UsageError(`--format jsonl: the table has more than one column named ${quoteText(repeated)}, and JSON objects need distinct keys; rename them, or use csv or tsv`);
+  }
 }
 
 /** Where the table and the summary go; '-' (or a path that is standard output) means standard output. */
@@ -259,7 +273,7 @@ async function writeOutputs(
   source: InputSource,
   table: Table,
   columns: readonly OutputColumn[],
-  format: OutputFormat,
+  format: TableFormat,
   summary: Summary,
   targets: { table?: string; summary?: string },
 ): Promise<void> {
@@ -271,7 +285,9 @@ async function writeOutputs(
   const tableFile = openOutput(targets.table ?? '-');
   files.push(tableFile);
   try {
-    await writeTable(source, table.shape, columns, format, new ByteSink(tableFile.stream), table.p.length);
+    const sink = new ByteSink(tableFile.stream);
+    if (format === 'jsonl') await writeJsonLines(source, table.shape, columns, sink, table.p.length);
+    else await writeTable(source, table.shape, columns, format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
     if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) abandon(error);
@@ -320,9 +336,10 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
 
   const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
-  // Decimal commas in, decimal commas out; but never in comma-separated output.
-  const decimalComma = table.decimalComma && !('delimiter' in format && format.delimiter === COMMA);
+  // Decimal commas in, decimal commas out; but never in comma-separated output or JSON.
+  const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
+  if (format === 'jsonl') checkJsonKeys(table, columns);
   await writeOutputs(source, table, columns, format, summary, targets);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.

@@ -114,7 +114,7 @@ export async function writeTable(
   await sink.flush(true);
 }
 
-function checkRowCount(source: InputSource, rows: number, expected: number): void {
+export function checkRowCount(source: InputSource, rows: number, expected: number): void {
   if (rows !== expected) {
     throw new DataError(`${source.name}: changed while famwise was reading it (${expected} rows at first, ${rows} now); the output is incomplete`);
   }
