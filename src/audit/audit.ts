@@ -205,14 +205,12 @@ export function auditClaims(p: Float64Array, claims: Claims, groupings: readonly
 
   // An alternative explains the claims only if it reproduces more of them than the stated adjustment.
   let explanation: (Trial & { kind: ExplanationKind }) | undefined;
+  const explained = (): boolean => explanation !== undefined && isFullMatch(explanation.comparison);
   const consider = (kind: ExplanationKind, candidate: Candidate): void => {
+    // The first alternative that reproduces every value is the explanation; later ones are not tried.
+    if (explained()) return;
     const tried = trial(p, claims, candidate, alpha);
-    const full = isFullMatch(tried.comparison);
-    const explanationFull = explanation !== undefined && isFullMatch(explanation.comparison);
-    const improves = better(tried, explanation) && better(tried, chosen);
-    if ((full && !explanationFull) || (full === explanationFull && improves)) {
-      explanation = { ...tried, kind };
-    }
+    if (isFullMatch(tried.comparison) || (better(tried, explanation) && better(tried, chosen))) explanation = { ...tried, kind };
   };
   // Another procedure, as stated otherwise.
   if (options.method) {
@@ -227,6 +225,7 @@ export function auditClaims(p: Float64Array, claims: Claims, groupings: readonly
   // Another number of tests: fitted family by family.
   const familyRows = rowsByFamily(p, stated.families);
   for (const method of [...methods, ...METHODS.filter((other) => !methods.includes(other))]) {
+    if (explained()) break;
     const fitted = familyRows.map((rows) => (rows.length === 0 ? 0 : fitTests(p, claims, rows, method)));
     if (fitted.every((m) => m !== undefined)) consider('tests', { method, grouping: stated, testsByFamily: fitted as number[] });
   }
