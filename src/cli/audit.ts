@@ -11,10 +11,10 @@ one explains the claimed values.
 The report goes to standard output (--json for scripts). The exit status is
 0 when the claimed values match, 3 when they do not.
 
-Examples:
+Examples (without --method, audit finds the procedure that fits):
   famwise audit results.csv --adjusted-column padj --method bh
-  famwise audit results.csv --adjusted-column padj          # which procedure was it?
-  famwise audit scan.tsv --adjusted-column q --family chrom --tests 1200000 --json`;
+  famwise audit results.csv --adjusted-column padj
+  famwise audit scan.tsv --adjusted-column q --family chrom --json`;
 
 import { Command } from 'commander';
 import { z } from 'zod';
