@@ -16,7 +16,7 @@ const outDir = join(here, 'output');
 mkdirSync(outDir, { recursive: true });
 const output = join(outDir, 'enzyme-screen-adjusted.csv');
 const summary = join(outDir, 'summary.json');
-const methods = ['bonferroni', 'holm', 'hochberg', 'bh', 'by', 'storey', 'bky'];
+const methods = ['bonferroni', 'sidak', 'holm', 'holm-sidak', 'hochberg', 'hommel', 'bh', 'by', 'storey', 'bky'];
 
 const args = ['adjust', input, '--family', 'storage_temp', '--methods', methods.join(','), '--alpha', '0.05', '-o', output, '--summary', summary];
 console.log('SYNTHETIC DEMO DATA: an invented enzyme-stabiliser screen, 600 additives x 3 storage temperatures.\n');
@@ -47,7 +47,7 @@ for (const temperature of ['4C', '25C', '37C']) {
   }
 }
 console.log(`
-FWER procedures (bonferroni, holm, hochberg) aim to make even one false rejection
+FWER procedures (bonferroni to hommel) aim to make even one false rejection
 unlikely; FDR procedures (bh, by) let a small share of the rejections be false in
 exchange for more discoveries. The adaptive FDR procedures (storey, bky) estimate
 the share of true nulls (pi0 in the summary) and gain most where it is lowest.
