@@ -36,7 +36,7 @@ console.log('temperature  method      rejected  false  FDP    any false rejectio
 for (const temperature of ['4C', '25C', '37C']) {
   const family = rows.filter((row) => row[col('storage_temp')] === temperature);
   for (const method of methods) {
-    const rejected = family.filter((row) => row[col(`rej_${method}`)] === 'true');
+    const rejected = family.filter((row) => row[col(`rej_${method.replaceAll('-', '_')}`)] === 'true');
     const falses = rejected.filter((row) => row[col('truly_active')] === 'false').length;
     const fdp = rejected.length === 0 ? 0 : falses / rejected.length;
     const active = family.filter((row) => row[col('truly_active')] === 'true').length;
