@@ -31,7 +31,7 @@ import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-ta
 import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
-import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
+import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath, tableReadOptions } from './options.js';
 
 
 /** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
@@ -113,13 +113,16 @@ function valuesSource(options: AdjustOptions, file: string | undefined): InputSo
   if (file !== undefined) {
     throw new UsageError(`--values takes one comma-separated list (0.01,0.04,...); ${quoteText(file)} was read as a table to adjust, so give one or the other`);
   }
-  if (options.family.length > 0 || options.pColumn !== undefined) {
-    throw new UsageError('--values: --family and --p-column need a table; --values gives a single column of p-values');
+  if (options.family.length > 0 || options.pColumn !== undefined || options.statistic !== undefined || options.pScale !== 'plain') {
+    throw new UsageError('--values: --family, --p-column, --p-scale and --statistic need a table; --values gives a single column of p-values');
   }
   // Empty items are missing values; a blank line would not be a row at all.
   const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
   return bufferSource(Buffer.from(`p\n${lines.join('\n')}\n`), '--values');
 }
+
+/** The column that shows p-values computed from statistics or -log10 p. */
+const COMPUTED_P_COLUMN = 'p_raw';
 
 /** An adjusted value as the shortest decimal that reads back to the same double. */
 function formatAdjusted(value: number, decimalComma: boolean): string {
@@ -139,7 +142,11 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
     return index;
   };
   const { alpha } = options;
-  return methods.flatMap((method, k) => {
+  // p-values computed from statistics or -log10 p are shown, so that each decision can be traced.
+  const computed: OutputColumn[] = table.pComputed
+    ? [{ name: COMPUTED_P_COLUMN, replaces: existing(COMPUTED_P_COLUMN), cell: (row: number) => formatAdjusted(table.p[row], decimalComma) }]
+    : [];
+  return computed.concat(methods.flatMap((method, k) => {
     const values = adjusted[k];
     const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
     return [
@@ -154,7 +161,7 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
         cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false'),
       },
     ];
-  });
+  }));
 }
 
 function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean): OutputFormat {
@@ -240,13 +247,9 @@ async function writeOutputs(
 async function runAdjust(file: string | undefined, options: AdjustOptions): Promise<void> {
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
+  const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p' } : tableReadOptions(options);
   const source = fromValues ?? (await openInput(file));
-  const table = await readTable(source, {
-    delimiter: fromValues ? COMMA : options.delimiter,
-    header: fromValues ? true : options.header,
-    pColumn: fromValues ? 'p' : options.pColumn,
-    familyColumns: options.family,
-  });
+  const table = await readTable(source, readOptions);
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
   };
