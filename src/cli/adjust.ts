@@ -16,10 +16,9 @@ Examples:
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
 
-import { Command, Option } from 'commander';
+import { type Command, Option } from 'commander';
 import { z } from 'zod';
 import { UsageError, quoteText } from '../errors.js';
-import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
@@ -30,8 +29,8 @@ import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { METHOD_TOKENS, type Method, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, summarize, summaryText } from '../summary.js';
-import { CAUTION } from './cautions.js';
-import { addInputOptions, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath, tableReadOptions } from './options.js';
+import { checkPlotTarget, discoveriesPlot } from './plot-output.js';
+import { checkWritable, collectList, inputOptionsSchema, openInput, samePath, tableCommand, tableReadOptions } from './options.js';
 
 
 /** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
@@ -80,6 +79,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   output: z.string().min(1).optional(),
   summary: z.string().min(1).optional(),
   format: z.enum(['csv', 'tsv', 'table'], { message: 'accepts csv, tsv or table' }).optional(),
+  plot: z.string().min(1).optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
 });
@@ -87,11 +87,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
 type AdjustOptions = z.output<typeof adjustOptionsSchema>;
 
 export function adjustCommand(): Command {
-  const command = new Command('adjust')
-    .summary('adjust the p-values of a table within families, and report the rejections')
-    .description(USAGE)
-    .argument('[file]', 'the table to read; - or nothing for standard input');
-  addInputOptions(command)
+  return tableCommand('adjust', 'adjust the p-values of a table within families, and report the rejections', USAGE, adjustOptionsSchema, runAdjust)
     .option('--methods <list>', `procedures to apply, comma-separated: ${METHOD_TOKENS.join(', ')} (default: bh)`, collectList)
     .option('--alpha <level>', 'the error rate to control, between 0 and 1 (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
@@ -99,13 +95,9 @@ export function adjustCommand(): Command {
     .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
+    .option('--plot <file.svg>', 'also draw, per family, each method\'s discoveries against the level from 0 to 0.25 into this SVG file')
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
-    .option('-q, --quiet', 'print no summary or notes on standard error')
-    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
-    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
-      await runAdjust(file, parseOptions(adjustOptionsSchema, raw));
-    });
-  return command;
+    .option('-q, --quiet', 'print no summary or notes on standard error');
 }
 
 function valuesSource(options: AdjustOptions, file: string | undefined): InputSource | undefined {
@@ -146,7 +138,7 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
   const computed: OutputColumn[] = table.pComputed
     ? [{ name: COMPUTED_P_COLUMN, replaces: existing(COMPUTED_P_COLUMN), cell: (row: number) => formatAdjusted(table.p[row], decimalComma) }]
     : [];
-  return computed.concat(methods.flatMap((method, k) => {
+  const perMethod = methods.flatMap((method, k) => {
     const values = adjusted[k];
     const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
     return [
@@ -161,7 +153,8 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
         cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false'),
       },
     ];
-  }));
+  });
+  return [...computed, ...perMethod];
 }
 
 function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean): OutputFormat {
@@ -176,11 +169,12 @@ function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean)
   return { delimiter: table.shape.delimiter };
 }
 
-/** Where the table and the summary go; '-' (or a path that is standard output) means standard output. */
-function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string } {
-  const { output: table, summary } = options;
+/** Where the table, the summary and the plot go; '-' (or a path that is standard output) means standard output. */
+function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string; plot?: string } {
+  const { output: table, summary, plot } = options;
   if (table !== undefined) checkWritable(table, '--output');
-  if (summary === undefined) return { table, summary };
+  if (plot !== undefined) checkPlotTarget(plot, [[file, 'the input table'], [table, 'the --output file'], [summary, 'the --summary file']]);
+  if (summary === undefined) return { table, summary, plot };
   checkWritable(summary, '--summary');
   const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
   if (tableToStdout && routeOutput(summary).kind === 'stdout') {
@@ -192,7 +186,7 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
   if (file !== undefined && file !== '-' && samePath(file, summary)) {
     throw new UsageError(`--summary ${summary}: is the input table; writing the summary there would replace it`);
   }
-  return { table, summary };
+  return { table, summary, plot };
 }
 
 /** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
@@ -214,7 +208,8 @@ async function writeOutputs(
   columns: readonly OutputColumn[],
   format: OutputFormat,
   summary: Summary,
-  targets: { table?: string; summary?: string },
+  targets: { table?: string; summary?: string; plot?: string },
+  plot: () => string,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -236,6 +231,11 @@ async function writeOutputs(
       const summaryFile = openOutput(targets.summary);
       files.push(summaryFile);
       summaryFile.stream.write(`${JSON.stringify(summary, null, 2)}\n`);
+    }
+    if (targets.plot !== undefined) {
+      const plotFile = openOutput(targets.plot);
+      files.push(plotFile);
+      plotFile.stream.write(plot());
     }
     for (const done of files) await done.finish();
     for (const done of files) done.install();
@@ -268,6 +268,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   // Decimal commas in, decimal commas out; but never in comma-separated output.
   const decimalComma = table.decimalComma && !('delimiter' in format && format.delimiter === COMMA);
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
-  await writeOutputs(source, table, columns, format, summary, targets);
+  const plot = (): string => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames);
+  await writeOutputs(source, table, columns, format, summary, targets, plot);
   if (!options.quiet) process.stderr.write(summaryText(summary));
 }

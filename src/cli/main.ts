@@ -9,6 +9,7 @@ import { FamwiseError } from '../errors.js';
 import { EXIT, EXIT_HELP } from '../exit-codes.js';
 import { removeUnfinishedFiles } from '../io/atomic-file.js';
 import { adjustCommand } from './adjust.js';
+import { inspectCommand } from './inspect.js';
 import { CAUTION } from './cautions.js';
 
 const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
@@ -21,6 +22,7 @@ function program(): Command {
     .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
     .showHelpAfterError('(see famwise --help; to adjust a table: famwise adjust FILE)');
   root.addCommand(adjustCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise adjust --help)'));
+  root.addCommand(inspectCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise inspect --help)'));
   // Commander's own usage errors (unknown option, missing value) read like ours and exit with the usage status.
   for (const command of [root, ...root.commands]) {
     command.exitOverride().configureOutput({

@@ -4,9 +4,11 @@
 
 import { accessSync, constants, createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
 import { basename, dirname, resolve } from 'node:path';
-import type { Command } from 'commander';
+import { Command } from 'commander';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
+import { EXIT_HELP } from '../exit-codes.js';
+import { CAUTION } from './cautions.js';
 import { DELIMITERS } from '../io/dialect.js';
 import { routeOutput } from '../io/atomic-file.js';
 import { type InputSource, fileSource, streamSource } from '../io/source.js';
@@ -19,11 +21,34 @@ export function collectList(value: string, previous: string[] | undefined): stri
   return [...(previous ?? []), ...value.split(',').map((item) => item.trim())];
 }
 
+/**
+ * A subcommand that reads one table (FILE or standard input) with the shared
+ * input options, ends its help with the exit statuses and the caution, and
+ * runs `run` with the options validated by `schema`.
+ */
+export function tableCommand<T extends z.ZodType>(
+  name: string,
+  summary: string,
+  usage: string,
+  schema: T,
+  run: (file: string | undefined, options: z.output<T>) => Promise<void>,
+): Command {
+  const command = new Command(name)
+    .summary(summary)
+    .description(usage)
+    .argument('[file]', 'the table to read; - or nothing for standard input')
+    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
+    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
+      await run(file, parseOptions(schema, raw));
+    });
+  return addInputOptions(command);
+}
+
 /** The input options: the same flags, with the same meaning, on every command that reads a table. */
 export function addInputOptions(command: Command): Command {
   return command
     .option('--p-column <name|index>', 'the column of raw p-values (default: the one column named like p, pvalue, p_value, pval)')
-    .option('--family <columns>', 'adjust separately within each combination of these columns\' values (comma-separated, repeatable)', collectList)
+    .option('--family <columns>', 'each combination of these columns\' values is a family of its own, adjusted or inspected separately (comma-separated, repeatable)', collectList)
     .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first line)')
     .option('--header', 'the first line names the columns (default: yes, unless it holds only numbers)')
     .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...')
@@ -124,6 +149,8 @@ const FLAGS: Record<string, string> = {
   output: '--output',
   summary: '--summary',
   format: '--format',
+  bins: '--bins',
+  plot: '--plot',
 };
 
 /** How to read the table, from the input options (usage errors surface here, before any reading). */
