@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { logGamma } from '../src/distributions/log-gamma.js';
 import { type StatisticKind, type Tail, pFromStatistic } from '../src/distributions/p-from-statistic.js';
 import { normalUpperTail } from '../src/distributions/normal-tail.js';
+import { seededRandom } from './helpers/random.js';
 
 interface TailCase {
   kind: StatisticKind;
@@ -100,6 +101,27 @@ describe('tail identities (common practice, no source)', () => {
       expect(relativeError(pFromStatistic('chisq', 'upper', z * z, 1), pFromStatistic('z', 'two', z))).toBeLessThan(1e-12);
       expect(relativeError(pFromStatistic('f', 'upper', z * z, 1, 9), pFromStatistic('t', 'two', z, 9))).toBeLessThan(1e-12);
     }
+  });
+});
+
+describe('p-values stay in [0, 1] (common practice, no source)', () => {
+  it('for random statistics of every kind, tail and size, and at 0', () => {
+    const random = seededRandom(3);
+    for (let i = 0; i < 20_000; i++) {
+      const scale = 10 ** (6 * random() - 3);
+      const value = (random() - 0.5) * scale;
+      const df = 10 ** (5 * random() - 1);
+      const df2 = 10 ** (5 * random() - 1);
+      for (const [kind, tail] of [['z', 'two'], ['z', 'upper'], ['z', 'lower'], ['t', 'two'], ['t', 'upper'], ['t', 'lower'], ['chisq', 'upper'], ['f', 'upper']] as const) {
+        const statistic = kind === 'chisq' || kind === 'f' ? Math.abs(value) : value;
+        const p = pFromStatistic(kind, tail, statistic, df, df2);
+        expect(p >= 0 && p <= 1, `${kind} ${tail} ${statistic} ${df} ${df2}: ${p}`).toBe(true);
+      }
+    }
+    expect(pFromStatistic('z', 'two', 0)).toBe(1);
+    expect(pFromStatistic('t', 'two', 0, 3)).toBe(1);
+    expect(pFromStatistic('chisq', 'upper', 0, 3)).toBe(1);
+    expect(pFromStatistic('f', 'upper', 0, 3, 4)).toBe(1);
   });
 });
 

@@ -9,4 +9,11 @@ describe('library API', () => {
     const result = famwise.adjustWithinFamilies(Float64Array.of(0.01, 0.02), famwise.singleFamily(2), famwise.METHODS, { alpha: 0.05 });
     expect(result.adjusted).toHaveLength(famwise.METHODS.length);
   });
+
+  it('exposes p-values from statistics and the diagnostics', () => {
+    expect(famwise.pFromStatistic('z', 'two', 1.959964)).toBeCloseTo(0.05, 7);
+    const inspection = famwise.inspectFamily(Float64Array.of(0, 0.2, 0.7), 0, 10);
+    expect(inspection.findings.map((finding) => finding.id)).toEqual(['exact-zeros']);
+    expect(famwise.FINDING_RULES.length).toBeGreaterThan(0);
+  });
 });
