@@ -4,6 +4,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { sortedByFamily } from '../src/diagnostics/by-family.js';
 import { pValueCounts } from '../src/diagnostics/counts.js';
+import { discoveriesAt, discoveryCurve, thinCurve } from '../src/diagnostics/discoveries.js';
 import { pValueHistogram } from '../src/diagnostics/histogram.js';
 import { CHI_SQUARE_ONE_MEDIAN, chiSquareOneOfP, genomicInflation } from '../src/diagnostics/inflation.js';
 import { inspectFamily } from '../src/diagnostics/inspect-family.js';
@@ -119,5 +120,26 @@ describe('counts, histogram, families', () => {
     expect(sorted.map((values) => Array.from(values))).toEqual([[0.2, 0.3], [0.1]]);
     expect(Array.from(missing)).toEqual([0, 1]);
     expect(Array.from(p)).toEqual([0.3, NaN, 0.1, 0.2]);
+  });
+});
+
+describe('discoveries against the level', () => {
+  it('steps up at each distinct adjusted value up to the largest level, ties in one step', () => {
+    const sorted = Float64Array.from([0, 0.01, 0.01, 0.04, 0.3]);
+    expect(discoveryCurve(sorted, 0.25)).toEqual({ levels: [0, 0.01, 0.04], counts: [1, 3, 4] });
+    expect(discoveriesAt(sorted, 0.01)).toBe(3);
+    expect(discoveriesAt(sorted, 0.009)).toBe(1);
+    expect(discoveryCurve(Float64Array.from([0.5]), 0.25)).toEqual({ levels: [0], counts: [0] });
+  });
+
+  it('merges steps closer than the resolution into the last of them, but keeps the one at alpha', () => {
+    const sorted = Float64Array.from({ length: 1000 }, (_, i) => (i + 1) / 4000);
+    const curve = discoveryCurve(sorted, 0.25);
+    const thin = thinCurve(curve, 0.01, 0.0505);
+    expect(thin.levels.length).toBeLessThan(40);
+    // Every kept step is a step of the full curve, with its count.
+    thin.levels.forEach((level, i) => expect(thin.counts[i]).toBe(discoveriesAt(sorted, level)));
+    const atAlpha = thin.levels.filter((level) => level <= 0.0505).length - 1;
+    expect(thin.counts[atAlpha]).toBe(discoveriesAt(sorted, 0.0505));
   });
 });

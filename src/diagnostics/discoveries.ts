@@ -37,3 +37,28 @@ export function discoveryCurve(sortedAdjusted: Float64Array, maxLevel: number): 
   }
   return { levels, counts };
 }
+
+/**
+ * The curve with the steps that fall in the same interval of width
+ * `resolution` merged into the last of them (the one with the highest
+ * count), so that a drawing holds at most one step per half pixel however
+ * many tests there are. The step at or just below `exactAt` (alpha) is always
+ * kept, so that the curve is exact there.
+ */
+export function thinCurve(curve: DiscoveryCurve, resolution: number, exactAt: number): DiscoveryCurve {
+  const { levels: allLevels, counts: allCounts } = curve;
+  const levels: number[] = [];
+  const counts: number[] = [];
+  const cell = (level: number): number => Math.floor(level / resolution);
+  for (let i = 0; i < allLevels.length; i++) {
+    const level = allLevels[i] as number;
+    const next = allLevels[i + 1];
+    const lastInCell = next === undefined || cell(next) !== cell(level);
+    const lastAtOrBelowExact = level <= exactAt && (next === undefined || next > exactAt);
+    if (i === 0 || lastInCell || lastAtOrBelowExact) {
+      levels.push(level);
+      counts.push(allCounts[i] as number);
+    }
+  }
+  return { levels, counts };
+}

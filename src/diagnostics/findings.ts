@@ -105,7 +105,7 @@ export const RULES: readonly Rule[] = [
     check: (diagnosis) => {
       const near = nearOne(diagnosis);
       if (!near || near.z < 4 || near.observed < 1.25 * near.expected) return null;
-      return `More p-values lie between 0.9 and 1 than null tests would put there (${near.observed} where about ${format(near.expected)} were expected), so the histogram is U-shaped: the tests are likely misspecified (a wrong variance model, one-sided tests in the wrong direction, a wrong null distribution); fix them before trusting any adjustment.`;
+      return `More p-values lie between 0.9 and 1 than null tests would put there (${near.observed} where about ${format(near.expected)} were expected), so the histogram rises toward 1 (a U shape, with the peak at 0): the tests are likely misspecified or conservative (one-sided tests in the wrong direction, an overestimated variance, a wrong null distribution); fix them before trusting any adjustment.`;
     },
   },
   {
@@ -113,7 +113,7 @@ export const RULES: readonly Rule[] = [
     check: (diagnosis) => {
       const near = nearOne(diagnosis);
       if (!near || near.z > -4 || near.observed > 0.8 * near.expected) return null;
-      return `Fewer p-values lie between 0.9 and 1 than null tests would put there (${near.observed} where about ${format(near.expected)} were expected), so the histogram is hill-shaped: the tests are likely conservative (an overestimated variance, or discrete tests), and every adjustment will find less than it could.`;
+      return `Fewer p-values lie between 0.9 and 1 than null tests would put there (${near.observed} where about ${format(near.expected)} were expected), so the histogram falls toward 1 (a hill shape): the null p-values are not uniform, a sign of a wrong null distribution or variance model, or of p-values made by combining or averaging other p-values; fix the tests before trusting any adjustment.`;
     },
   },
   {

@@ -3,11 +3,12 @@
 // p-values at or below each level from 0 to 0.25, with the chosen alpha
 // marked by a vertical line and each method's count there by a dot. Every
 // dot and step carries its numbers in data- attributes, so that what is
-// drawn can be checked against what was computed.
+// drawn can be checked against what was computed. Steps closer together
+// than half a pixel are merged (the curve stays exact at alpha).
 //
 // Cost: O(n) per family and method.
 
-import { type DiscoveryCurve, discoveriesAt, discoveryCurve } from '../diagnostics/discoveries.js';
+import { type DiscoveryCurve, discoveriesAt, discoveryCurve, thinCurve } from '../diagnostics/discoveries.js';
 import { type LegendEntry, axes, coordinate, element, figure, niceTicks, panelFrame, text } from './svg.js';
 
 export const MAX_LEVEL = 0.25;
@@ -44,7 +45,10 @@ function panel(methods: readonly string[], alpha: number, { title, sortedAdjuste
       parts.push(element('line', { x1: frame.x(alpha), y1: frame.top, x2: frame.x(alpha), y2: frame.top + frame.height, stroke: '#777', 'stroke-dasharray': '4 3', class: 'alpha', 'data-alpha': String(alpha) }));
       parts.push(text(frame.x(alpha) + 3, frame.top + 10, `alpha = ${alpha}`, { fill: '#555', class: 'alpha-label' }));
     }
-    curves.forEach((curve, k) => {
+    // At most one step per half pixel: a million tests draw no larger than a hundred.
+    const resolution = MAX_LEVEL / (2 * frame.width);
+    curves.forEach((fullCurve, k) => {
+      const curve = thinCurve(fullCurve, resolution, alpha);
       const token = methods[k] as string;
       const steps = curve.levels.map((level, i) => `${level}:${curve.counts[i]}`).join(' ');
       parts.push(element('polyline', { points: stepPoints(curve, frame.x, frame.y), fill: 'none', stroke: colour(k), 'stroke-width': 1.8, class: 'curve', 'data-method': token, 'data-steps': steps }));
