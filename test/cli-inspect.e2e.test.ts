@@ -199,6 +199,10 @@ describe('adjust --plot: discoveries against the level, as SVG', () => {
       expect(Number(alpha?.['data-alpha'])).toBe(0.1);
       expect(all(panel, 'text').filter((t) => t.class === 'x-tick').map((t) => t['#text'])).toEqual([0, 0.05, 0.1, 0.15, 0.2, 0.25]);
     });
+    // The same input draws the same bytes.
+    const again = join(work, 'discoveries-again.svg');
+    famwise(['adjust', input, '--family', 'storage_temp', '--methods', 'holm,bh', '--alpha', '0.1', '-o', join(work, 'out2.csv'), '--plot', again, '-q']);
+    expect(readFileSync(again).equals(readFileSync(plot))).toBe(true);
   });
 
   it('leaves no plot behind when the table is bad, and refuses to plot over the input', () => {
