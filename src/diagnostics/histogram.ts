@@ -9,7 +9,7 @@
 // Cost: O(n).
 // Source: the reading of p-value histograms is common practice; see e.g.
 // Storey, J. D. & Tibshirani, R. (2003). Statistical significance for
-// genomewide studies. PNAS 100:9440-9445, figure 1.
+// genomewide studies. PNAS 100:9440-9445 (cited from memory).
 
 export interface Histogram {
   /** counts[k] = p-values in bin k. */

@@ -12,7 +12,8 @@
 // Sources: Kolmogorov, A. N. (1933). Sulla determinazione empirica di una
 // legge di distribuzione. Giornale dell'Istituto Italiano degli Attuari
 // 4:83-91. The series of the limiting distribution as in Press et al. (2007),
-// Numerical Recipes, 3rd ed., section 6.14.12.
+// Numerical Recipes, 3rd ed., section 6.14.12. (Both cited from memory; the
+// values are checked against R's ks.test and a 30-digit mpmath sum.)
 
 export interface Uniformity {
   /** p-values above 0.5 (the ones tested). */

@@ -19,7 +19,8 @@
 // Source: Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery, B. P.
 // (2007). Numerical Recipes, 3rd ed., Cambridge University Press, section 6.4
 // (eq. 6.4.5); Abramowitz, M. & Stegun, I. A. (1964). Handbook of
-// Mathematical Functions, 26.5.27 (t) and 26.6.2 (F).
+// Mathematical Functions, 26.5.27 (t) and 26.6.2 (F). Section and equation
+// numbers are cited from memory; the results are checked against R.
 
 import { logBeta } from './log-gamma.js';
 

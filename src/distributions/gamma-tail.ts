@@ -13,7 +13,8 @@
 // usual degrees of freedom).
 // Source: Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery, B. P.
 // (2007). Numerical Recipes, 3rd ed., Cambridge University Press, section 6.2
-// (eqs. 6.2.5 and 6.2.7).
+// (eqs. 6.2.5 and 6.2.7; section and equation numbers cited from memory, the
+// results checked against R's pchisq).
 
 import { logGamma } from './log-gamma.js';
 

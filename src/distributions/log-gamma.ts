@@ -9,7 +9,7 @@
 // so famwise uses loggam.
 //
 // Cost: O(1). Source: Zhang, S. & Jin, J. (1996). Computation of Special
-// Functions. Wiley, ch. 3, as implemented by jstat 1.9.6.
+// Functions. Wiley (cited from memory), as implemented by jstat 1.9.6.
 
 import jStat from 'jstat';
 

@@ -18,7 +18,8 @@
 // Sources: Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery, B. P.
 // (2007). Numerical Recipes, 3rd ed., Cambridge University Press, section 6.2.2.
 // Cody, W. J. (1969). Rational Chebyshev approximations for the error
-// function. Mathematics of Computation 23:631-637.
+// function. Mathematics of Computation 23:631-637. (Both cited from memory;
+// the results are checked against R's pnorm.)
 
 const CHEBYSHEV = [
   -1.3026537197817094, 6.4196979235649026e-1, 1.9476473204185836e-2, -9.561514786808631e-3, -9.46595344482036e-4,

@@ -13,7 +13,8 @@
 //
 // Cost: O(1) for z; O(sqrt(df)) for t, chi-square and F.
 // Sources: the tail identities are in Abramowitz, M. & Stegun, I. A. (1964).
-// Handbook of Mathematical Functions, chapter 26 (26.2.2, 26.4.2, 26.5.27, 26.6.2).
+// Handbook of Mathematical Functions, chapter 26 (26.2.2, 26.4.2, 26.5.27,
+// 26.6.2; equation numbers cited from memory).
 
 import { fUpperTail, studentTTwoTail, studentTUpperTail } from './beta-tail.js';
 import { chiSquareUpperTail } from './gamma-tail.js';
