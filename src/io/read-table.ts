@@ -10,18 +10,8 @@ import { Growable } from './growable.js';
 import { MISSING_MARKS, isNumberText, readPValue, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
-import {
-  type DegreesSource,
-  type ValueReading,
-  VALUE_COLUMN_NAMES,
-  VALUE_NAMES,
-  degreesNeeded,
-  pFromValue,
-  readNumber,
-  valueKind,
-  whyNotDegrees,
-  whyNotValue,
-} from './statistic-text.js';
+import type { ValueReading } from './statistic-text.js';
+import { type ValueConverter, valueConverter } from './value-converter.js';
 
 export interface ReadOptions {
   /** The delimiter byte; undefined to sniff it from the first line. */
@@ -77,7 +67,7 @@ const P_COLUMN_NAMES = new Set([
 ]);
 
 
-function normalizedName(name: string): string {
+export function normalizedName(name: string): string {
   return name.toLowerCase().replace(/[^a-z0-9]/g, '');
 }
 
@@ -86,7 +76,7 @@ export function columnLabel(shape: TableShape, column: number): string {
   return shape.names ? `column ${quoteText(shape.names[column])}` : `column ${column + 1}`;
 }
 
-function listColumns(names: readonly string[]): string {
+export function listColumns(names: readonly string[]): string {
   return names.map((name) => quoteText(name, 40)).join(', ');
 }
 
@@ -139,38 +129,6 @@ function findPColumn(shape: TableShape): number {
   }
   const listed = candidates.map((i) => `${quoteText(names[i] ?? '')} (column ${i + 1})`).join(', ');
   throw new UsageError(`several columns could hold the raw p-values: ${listed}; choose one with --p-column`);
-}
-
-/** The option that names the value column, for messages. */
-function valueOption(reading: ValueReading | undefined): string {
-  return reading?.kind === 'statistic' ? '--statistic-column' : '--p-column';
-}
-
-/** The one column named like the values a reading expects (z, t_value, log10p, ...). */
-function findValueColumn(shape: TableShape, reading: ValueReading): number {
-  const option = valueOption(reading);
-  const what = VALUE_NAMES[valueKind(reading)];
-  const names = shape.names;
-  if (!names) {
-    if (shape.columnCount === 1) return 0;
-    throw new UsageError(`the table has no header and ${shape.columnCount} columns: say which holds the ${what}s with ${option} N`);
-  }
-  const accepted = VALUE_COLUMN_NAMES[valueKind(reading)];
-  const candidates = names.flatMap((name, i) => (accepted.includes(normalizedName(name)) ? [i] : []));
-  if (candidates.length === 1) return candidates[0];
-  if (candidates.length === 0) {
-    throw new UsageError(`no column is named like a ${what} column (${accepted.slice(0, 4).join(', ')}, ...); name it with ${option}; the columns are ${listColumns(names)}`);
-  }
-  const listed = candidates.map((i) => `${quoteText(names[i] ?? '')} (column ${i + 1})`).join(', ');
-  throw new UsageError(`several columns could hold the ${what}s: ${listed}; choose one with ${option}`);
-}
-
-/** Degrees of freedom for each row: a constant, or a column resolved against the header. */
-type RowDegrees = { readonly constant: number } | { readonly column: number };
-
-function resolveDegrees(shape: TableShape, source: DegreesSource | undefined, option: string): RowDegrees {
-  if (source === undefined) return { constant: NaN };
-  return 'constant' in source ? source : { column: resolveColumn(shape, source.column, option) };
 }
 
 /** Family columns must be distinct, and distinctly named, to label the families. */
@@ -245,30 +203,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   let shape: TableShape | undefined;
   let pColumn = -1;
   let familyColumns: number[] = [];
-  let degrees: readonly RowDegrees[] = [];
-
-  /** One row's degrees of freedom; NaN when its cell is missing. */
-  const rowDegrees = (view: RecordView, table: TableShape, which: RowDegrees): number => {
-    if ('constant' in which) return which.constant;
-    const text = fieldText(view, which.column);
-    const value = readNumber(text, decimalCommaAllowed);
-    if (value === 'missing') return NaN;
-    const why = whyNotDegrees(value);
-    if (why) throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, which.column)}: ${quoteText(text)} is not a number of degrees of freedom: ${why}`);
-    return value as number;
-  };
-
-  /** The p-value of a statistic or -log10 p cell; 'missing' when it, or a degrees-of-freedom cell it needs, is missing. */
-  const convertedValue = (reading: ValueReading, text: string, view: RecordView, table: TableShape): number | 'missing' => {
-    const value = readNumber(text, decimalCommaAllowed);
-    if (value === 'missing') return 'missing';
-    const kind = valueKind(reading);
-    const why = whyNotValue(kind, value, text, decimalCommaAllowed);
-    if (why) throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a ${VALUE_NAMES[kind]}: ${why}`);
-    const needed = degrees.slice(0, degreesNeeded(reading)).map((which) => rowDegrees(view, table, which));
-    if (needed.some(Number.isNaN)) return 'missing';
-    return pFromValue(reading, value as number, needed[0] ?? NaN, needed[1] ?? NaN);
-  };
+  let converter: ValueConverter | undefined;
 
   const start = (view: RecordView): boolean => {
     const header = options.header ?? !allNumbers(view);
@@ -277,14 +212,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     }
     const names = header ? Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)) : null;
     shape = { delimiter, loneCrEndsLine, names, columnCount: view.fieldCount };
-    const reading = options.reading;
-    if (reading === undefined) {
+    if (options.reading === undefined) {
       pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     } else {
-      pColumn = options.pColumn === undefined ? findValueColumn(shape, reading) : resolveColumn(shape, options.pColumn, valueOption(reading));
-      if (reading.kind === 'statistic') {
-        degrees = [resolveDegrees(shape, reading.df, '--df-column'), resolveDegrees(shape, reading.df2, '--df2-column')];
-      }
+      converter = valueConverter(options.reading, shape, options.pColumn, source.name, decimalCommaAllowed);
+      pColumn = converter.column;
     }
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
     checkFamilyColumns(shape, familyColumns);
@@ -296,7 +228,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
     }
     const text = fieldText(view, pColumn);
-    const value = options.reading ? convertedValue(options.reading, text, view, table) : readPValue(text, decimalCommaAllowed);
+    const value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
     if (value === 'invalid') {
       throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
     }
