@@ -54,3 +54,8 @@ export {
 } from './families.js';
 export { summarize, pi0Warnings, type Summary, type SummaryRow } from './summary.js';
 export { readPValue, MISSING_MARKS } from './io/p-value-text.js';
+export { pFromStatistic, STATISTIC_KINDS, type StatisticKind, type Tail } from './distributions/p-from-statistic.js';
+export { inspectFamily, type FamilyInspection } from './diagnostics/inspect-family.js';
+export { genomicInflation, type Inflation } from './diagnostics/inflation.js';
+export { upperHalfUniformity, type Uniformity } from './diagnostics/uniformity.js';
+export { RULES as FINDING_RULES, findingsOf, type Finding } from './diagnostics/findings.js';

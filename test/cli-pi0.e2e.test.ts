@@ -106,7 +106,7 @@ describe('pi0 option errors name the option (exit status 2)', () => {
 
   it('lists the pi0 options in the help', () => {
     const help = famwise(['adjust', '--help']).stdout;
-    expect(help).toMatch(/--pi0 <estimator>[^-]*choices:\s+"fixed", "spline", "bootstrap-mse"/);
+    expect(help).toMatch(/--pi0 <estimator>[^-]*choices:\s+"fixed",\s+"spline",\s+"bootstrap-mse"/);
     expect(help).toMatch(/--pi0-lambda <value>/);
     expect(help).toMatch(/--pi0-seed <n>/);
   });

@@ -22,4 +22,11 @@ describe('library API', () => {
     expect(famwise.adjustBky(p)).toHaveLength(20);
     expect(famwise.PI0_ESTIMATORS).toEqual(['fixed', 'spline', 'bootstrap-mse']);
   });
+
+  it('exposes p-values from statistics and the diagnostics', () => {
+    expect(famwise.pFromStatistic('z', 'two', 1.959964)).toBeCloseTo(0.05, 7);
+    const inspection = famwise.inspectFamily(Float64Array.of(0, 0.2, 0.7), 0, 10);
+    expect(inspection.findings.map((finding) => finding.id)).toEqual(['exact-zeros']);
+    expect(famwise.FINDING_RULES.length).toBeGreaterThan(0);
+  });
 });

@@ -22,10 +22,9 @@ Examples:
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
 
-import { Command, Option } from 'commander';
+import { type Command, Option } from 'commander';
 import { z } from 'zod';
 import { DataError, UsageError, quoteText } from '../errors.js';
-import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
@@ -38,8 +37,8 @@ import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-ta
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
-import { CAUTION } from './cautions.js';
-import { addInputOptions, alphaSchema, testsSchema, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
+import { checkPlotTarget, discoveriesPlot } from './plot-output.js';
+import { alphaSchema, checkWritable, collectList, inputOptionsSchema, openInput, samePath, tableCommand, tableReadOptions, testsSchema } from './options.js';
 
 
 /** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
@@ -80,6 +79,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   summary: z.string().min(1).optional(),
   format: z.enum(['csv', 'tsv', 'jsonl', 'table'], { message: 'accepts csv, tsv, jsonl or table' }).optional(),
   weights: z.string().min(1, 'needs the name or 1-based position of the column of weights').optional(),
+  plot: z.string().min(1).optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
   pi0: z.enum(PI0_ESTIMATORS, { message: `accepts ${PI0_ESTIMATORS.join(', ')}` }).optional(),
@@ -99,11 +99,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
 type AdjustOptions = z.output<typeof adjustOptionsSchema>;
 
 export function adjustCommand(): Command {
-  const command = new Command('adjust')
-    .summary('adjust the p-values of a table within families, and report the rejections')
-    .description(USAGE)
-    .argument('[file]', 'the table to read; - or nothing for standard input');
-  addInputOptions(command)
+  return tableCommand('adjust', 'adjust the p-values of a table within families, and report the rejections', USAGE, adjustOptionsSchema, runAdjust)
     .option('--methods <list>', `procedures to apply, comma-separated: ${METHOD_TOKENS.join(', ')} (default: bh)`, collectList)
     .option('--alpha <level>', 'the error rate to control, between 0 and 1 (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
@@ -112,16 +108,12 @@ export function adjustCommand(): Command {
     .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv, jsonl (one JSON object per row) or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'jsonl', 'table']))
+    .option('--plot <file.svg>', 'also draw, per family, each method\'s discoveries against the level from 0 to 0.25 into this SVG file')
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
     .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true null hypotheses (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
     .option('--pi0-lambda <value>', `the tuning value of --pi0 fixed: pi0 = #{p > value} / (m (1 - value)) (default: ${DEFAULT_PI0_SETTINGS.lambda})`)
     .option('--pi0-seed <n>', `the seed of the resampling in --pi0 bootstrap-mse, a whole number (default: ${DEFAULT_PI0_SETTINGS.seed})`)
-    .option('-q, --quiet', 'print no summary or notes on standard error (pi0 warnings are still printed)')
-    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
-    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
-      await runAdjust(file, parseOptions(adjustOptionsSchema, raw));
-    });
-  return command;
+    .option('-q, --quiet', 'print no summary or notes on standard error (pi0 warnings are still printed)');
 }
 
 function valuesSource(options: AdjustOptions, file: string | undefined): InputSource | undefined {
@@ -129,8 +121,8 @@ function valuesSource(options: AdjustOptions, file: string | undefined): InputSo
   if (file !== undefined) {
     throw new UsageError(`--values takes one comma-separated list (0.01,0.04,...); ${quoteText(file)} was read as a table to adjust, so give one or the other`);
   }
-  if (options.family.length > 0 || options.pColumn !== undefined) {
-    throw new UsageError('--values: --family and --p-column need a table; --values gives a single column of p-values');
+  if (options.family.length > 0 || options.pColumn !== undefined || options.statistic !== undefined || options.pScale !== 'plain') {
+    throw new UsageError('--values: --family, --p-column, --p-scale and --statistic need a table; --values gives a single column of p-values');
   }
   // Empty items are missing values; a blank line would not be a row at all.
   const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
@@ -151,6 +143,9 @@ function checkWeightsUsage(options: AdjustOptions): void {
   if (options.values !== undefined) throw new UsageError('--weights needs a table with a column of weights; --values gives p-values only');
 }
 
+/** The column that shows p-values computed from statistics or -log10 p. */
+const COMPUTED_P_COLUMN = 'p_raw';
+
 /** An adjusted value as the shortest decimal that reads back to the same double. */
 function formatAdjusted(value: number, decimalComma: boolean): string {
   if (Number.isNaN(value)) return '';
@@ -169,7 +164,11 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
     return index;
   };
   const { alpha } = options;
-  return methods.flatMap((method, k) => {
+  // p-values computed from statistics or -log10 p are shown, so that each decision can be traced.
+  const computed: OutputColumn[] = table.pComputed
+    ? [{ name: COMPUTED_P_COLUMN, replaces: existing(COMPUTED_P_COLUMN), cell: (row: number) => formatAdjusted(table.p[row], decimalComma) }]
+    : [];
+  const perMethod = methods.flatMap((method, k) => {
     const values = adjusted[k];
     const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
     return [
@@ -185,6 +184,7 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
       },
     ];
   });
+  return [...computed, ...perMethod];
 }
 
 /** The table writers' formats, and JSON lines. */
@@ -212,11 +212,12 @@ function checkJsonKeys(table: Table, columns: readonly OutputColumn[]): void {
   }
 }
 
-/** Where the table and the summary go; '-' (or a path that is standard output) means standard output. */
-function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string } {
-  const { output: table, summary } = options;
+/** Where the table, the summary and the plot go; '-' (or a path that is standard output) means standard output. */
+function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string; plot?: string } {
+  const { output: table, summary, plot } = options;
   if (table !== undefined) checkWritable(table, '--output');
-  if (summary === undefined) return { table, summary };
+  if (plot !== undefined) checkPlotTarget(plot, [[file, 'the input table'], [table, 'the --output file'], [summary, 'the --summary file']]);
+  if (summary === undefined) return { table, summary, plot };
   checkWritable(summary, '--summary');
   const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
   if (tableToStdout && routeOutput(summary).kind === 'stdout') {
@@ -228,7 +229,7 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
   if (file !== undefined && file !== '-' && samePath(file, summary)) {
     throw new UsageError(`--summary ${summary}: is the input table; writing the summary there would replace it`);
   }
-  return { table, summary };
+  return { table, summary, plot };
 }
 
 /** The pi0 settings from --pi0, --pi0-lambda and --pi0-seed; options that would have no effect are refused. */
@@ -275,7 +276,8 @@ async function writeOutputs(
   columns: readonly OutputColumn[],
   format: TableFormat,
   summary: Summary,
-  targets: { table?: string; summary?: string },
+  targets: { table?: string; summary?: string; plot?: string },
+  plot: () => string,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -300,6 +302,11 @@ async function writeOutputs(
       files.push(summaryFile);
       summaryFile.stream.write(`${JSON.stringify(summary, null, 2)}\n`);
     }
+    if (targets.plot !== undefined) {
+      const plotFile = openOutput(targets.plot);
+      files.push(plotFile);
+      plotFile.stream.write(plot());
+    }
     for (const done of files) await done.finish();
     for (const done of files) done.install();
   } catch (error) {
@@ -312,14 +319,9 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const settings = methodSettings(options);
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
+  const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p' } : tableReadOptions(options);
   const source = fromValues ?? (await openInput(file));
-  const table = await readTable(source, {
-    delimiter: fromValues ? COMMA : options.delimiter,
-    header: fromValues ? true : options.header,
-    pColumn: fromValues ? 'p' : options.pColumn,
-    familyColumns: options.family,
-    weightsColumn: options.weights,
-  });
+  const table = await readTable(source, { ...readOptions, weightsColumn: options.weights });
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
   };
@@ -340,7 +342,8 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   if (format === 'jsonl') checkJsonKeys(table, columns);
-  await writeOutputs(source, table, columns, format, summary, targets);
+  const plot = (): string => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames);
+  await writeOutputs(source, table, columns, format, summary, targets, plot);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.
   for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);

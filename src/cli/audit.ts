@@ -16,7 +16,7 @@ Examples (without --method, audit finds the procedure that fits):
   famwise audit results.csv --adjusted-column padj
   famwise audit scan.tsv --adjusted-column q --family chrom --json`;
 
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { type Grouping, auditClaims, recompute } from '../audit/audit.js';
 import { settleBareIntegers } from '../audit/matching.js';
@@ -26,8 +26,7 @@ import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';
 import { singleFamily } from '../families.js';
 import { readTable } from '../io/read-table.js';
 import { METHOD_TOKENS, findMethod } from '../methods.js';
-import { CAUTION } from './cautions.js';
-import { addInputOptions, alphaSchema, testsSchema, inputOptionsSchema, openInput, parseOptions } from './options.js';
+import { alphaSchema, inputOptionsSchema, openInput, tableCommand, tableReadOptions, testsSchema } from './options.js';
 
 const auditOptionsSchema = inputOptionsSchema.extend({
   adjustedColumn: z.string({ message: 'is required: name the column of adjusted p-values to check' }).min(1, 'needs a column name or a 1-based position'),
@@ -50,35 +49,18 @@ const auditOptionsSchema = inputOptionsSchema.extend({
 type AuditOptions = z.output<typeof auditOptionsSchema>;
 
 export function auditCommand(): Command {
-  const command = new Command('audit')
-    .summary('check adjusted p-values computed elsewhere, and explain any mismatch')
-    .description(USAGE)
-    .argument('[file]', 'the table to read; - or nothing for standard input');
-  addInputOptions(command)
+  return tableCommand('audit', 'check adjusted p-values computed elsewhere, and explain any mismatch', USAGE, auditOptionsSchema, runAudit, AUDIT_EXIT_HELP)
     .option('--adjusted-column <name|index>', 'the column of adjusted p-values to check (required)')
     .option('--method <token>', `the procedure the values claim to come from: ${METHOD_TOKENS.join(', ')} (default: find the one that fits)`)
     .option('--alpha <level>', 'the level at which decisions are compared (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them')
     .option('--mismatches <n>', 'list at most this many mismatching rows (default: 10)')
-    .option('--json', 'print the report as JSON, for scripts')
-    .addHelpText('after', `\nExit status:\n${AUDIT_EXIT_HELP}\n\n${CAUTION}\n`)
-    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
-      await runAudit(file, parseOptions(auditOptionsSchema, raw));
-    });
-  return command;
+    .option('--json', 'print the report as JSON, for scripts');
 }
 
 async function runAudit(file: string | undefined, options: AuditOptions): Promise<void> {
   const source = await openInput(file);
-  const table = await readTable(source, {
-    delimiter: options.delimiter,
-    header: options.header,
-    pColumn: options.pColumn,
-    familyColumns: options.family,
-    claimedColumn: options.adjustedColumn,
-    lineNumbers: true,
-    keyColumns: true,
-  });
+  const table = await readTable(source, { ...tableReadOptions(options), claimedColumn: options.adjustedColumn, lineNumbers: true, keyColumns: true });
   const claimed = table.claimed as NonNullable<typeof table.claimed>;
   const claims = { ...claimed, halfUnits: settleBareIntegers(claimed.values, claimed.halfUnits) };
   const nameOf = (column: number): string => table.shape.names?.[column] ?? String(column + 1);

@@ -10,6 +10,7 @@ import { EXIT, EXIT_HELP } from '../exit-codes.js';
 import { removeUnfinishedFiles } from '../io/atomic-file.js';
 import { adjustCommand } from './adjust.js';
 import { auditCommand } from './audit.js';
+import { inspectCommand } from './inspect.js';
 import { CAUTION } from './cautions.js';
 import { methodsCommand } from './methods.js';
 
@@ -25,6 +26,7 @@ function program(): Command {
   root.addCommand(adjustCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise adjust --help)'));
   root.addCommand(auditCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise audit --help)'));
   root.addCommand(methodsCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise methods --help)'));
+  root.addCommand(inspectCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise inspect --help)'));
   // Commander's own usage errors (unknown option, missing value) read like ours and exit with the usage status.
   for (const command of [root, ...root.commands]) {
     command.exitOverride().configureOutput({

@@ -4,27 +4,69 @@
 
 import { accessSync, constants, createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
 import { basename, dirname, resolve } from 'node:path';
-import type { Command } from 'commander';
+import { Command } from 'commander';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
+import { EXIT_HELP } from '../exit-codes.js';
+import { CAUTION } from './cautions.js';
 import { DELIMITERS } from '../io/dialect.js';
 import { routeOutput } from '../io/atomic-file.js';
 import { type InputSource, fileSource, streamSource } from '../io/source.js';
+import { type StatisticKind, type Tail, STATISTIC_KINDS, TAILS_ALLOWED, DEGREES_NEEDED, defaultTail } from '../distributions/p-from-statistic.js';
+import type { DegreesSource, ValueReading } from '../io/statistic-text.js';
+import type { ReadOptions } from '../io/read-table.js';
 
 /** Collects a repeatable, comma-separated option into one list. */
 export function collectList(value: string, previous: string[] | undefined): string[] {
   return [...(previous ?? []), ...value.split(',').map((item) => item.trim())];
 }
 
+/**
+ * A subcommand that reads one table (FILE or standard input) with the shared
+ * input options, ends its help with the exit statuses and the caution, and
+ * runs `run` with the options validated by `schema`.
+ */
+export function tableCommand<T extends z.ZodType>(
+  name: string,
+  summary: string,
+  usage: string,
+  schema: T,
+  run: (file: string | undefined, options: z.output<T>) => Promise<void>,
+  exitHelp: string = EXIT_HELP,
+): Command {
+  const command = new Command(name)
+    .summary(summary)
+    .description(usage)
+    .argument('[file]', 'the table to read; - or nothing for standard input')
+    .addHelpText('after', `\nExit status:\n${exitHelp}\n\n${CAUTION}\n`)
+    .action(async (file: string | undefined, raw: Record<string, unknown>) => {
+      await run(file, parseOptions(schema, raw));
+    });
+  return addInputOptions(command);
+}
+
 /** The input options: the same flags, with the same meaning, on every command that reads a table. */
 export function addInputOptions(command: Command): Command {
   return command
     .option('--p-column <name|index>', 'the column of raw p-values (default: the one column named like p, pvalue, p_value, pval)')
-    .option('--family <columns>', 'adjust separately within each combination of these columns\' values (comma-separated, repeatable)', collectList)
+    .option('--family <columns>', 'each combination of these columns\' values is a family of its own, adjusted or inspected separately (comma-separated, repeatable)', collectList)
     .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first line)')
     .option('--header', 'the first line names the columns (default: yes, unless it holds only numbers)')
-    .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...');
+    .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...')
+    .option('--p-scale <scale>', 'how the p-value column is written: plain (0.003) or minus-log10 (2.52 for p = 0.003) (default: plain)')
+    .option('--statistic <kind>', 'read test statistics instead of p-values, and compute each p-value: z, t, chisq or f')
+    .option('--statistic-column <name|index>', 'the column of statistics (default: the one column named like the kind: z, z_value, t, t_stat, chisq, F, stat, ...)')
+    .option('--df <n>', 'degrees of freedom of every t or chi-square statistic; for F, the numerator\'s')
+    .option('--df-column <name|index>', 'a column holding each row\'s degrees of freedom, instead of --df')
+    .option('--df2 <n>', 'for F statistics: the denominator\'s degrees of freedom')
+    .option('--df2-column <name|index>', 'a column holding each row\'s denominator degrees of freedom, instead of --df2')
+    .option('--tail <tail>', 'for z and t: two (default: p = P(|T| >= |t|)), upper (p = P(T >= t): large positive values are evidence) or lower (p = P(T <= t)); chisq and f are always upper');
 }
+
+const positiveNumber = z
+  .string()
+  .transform((text) => (/^\s*(\d+\.?\d*|\.\d+)(e[+-]?\d+)?\s*$/i.test(text) ? Number(text) : NaN))
+  .refine((value) => value > 0 && Number.isFinite(value), 'needs a positive number of degrees of freedom, like 10 or 27.4');
 
 export const inputOptionsSchema = z.object({
   pColumn: z.string().min(1, 'needs a column name or a 1-based position').optional(),
@@ -35,6 +77,19 @@ export const inputOptionsSchema = z.object({
     .transform((value) => DELIMITERS[value] as number)
     .optional(),
   header: z.boolean().optional(),
+  pScale: z.enum(['plain', 'minus-log10'], { message: 'accepts plain or minus-log10' }).default('plain'),
+  statistic: z
+    .string()
+    .transform((kind) => kind.toLowerCase())
+    .refine((kind) => (STATISTIC_KINDS as readonly string[]).includes(kind), `accepts ${STATISTIC_KINDS.join(', ')}`)
+    .transform((kind) => kind as StatisticKind)
+    .optional(),
+  statisticColumn: z.string().min(1, 'needs a column name or a 1-based position').optional(),
+  df: positiveNumber.optional(),
+  dfColumn: z.string().min(1, 'needs a column name or a 1-based position').optional(),
+  df2: positiveNumber.optional(),
+  df2Column: z.string().min(1, 'needs a column name or a 1-based position').optional(),
+  tail: z.enum(['two', 'upper', 'lower'], { message: 'accepts two, upper or lower' }).optional(),
 });
 
 /** --alpha, shared by the commands that decide at a level. */
@@ -52,8 +107,54 @@ export const testsSchema = z
   .refine((tests) => tests >= 1 && Number.isSafeInteger(tests), 'needs a whole number from 1 to 9007199254740991')
   .optional();
 
+type InputOptions = z.output<typeof inputOptionsSchema>;
+
+function degreesSource(constant: number | undefined, column: string | undefined, flag: string): DegreesSource | undefined {
+  if (constant !== undefined && column !== undefined) throw new UsageError(`${flag} and ${flag}-column: give one or the other`);
+  if (constant !== undefined) return { constant };
+  return column === undefined ? undefined : { column };
+}
+
+/**
+ * What the value column holds, from --p-scale, --statistic and their
+ * companions; undefined for plain p-values. Options that do not fit
+ * together are usage errors.
+ */
+export function valueReading(options: InputOptions): ValueReading | undefined {
+  const { statistic } = options;
+  if (statistic === undefined) {
+    const stray = (['statisticColumn', 'df', 'dfColumn', 'df2', 'df2Column', 'tail'] as const).find((key) => options[key] !== undefined);
+    if (stray) throw new UsageError(`${FLAGS[stray]} needs --statistic (z, t, chisq or f)`);
+    return options.pScale === 'minus-log10' ? { kind: 'minus-log10' } : undefined;
+  }
+  if (options.pScale !== 'plain') throw new UsageError('--p-scale and --statistic: the column holds p-values or statistics, not both');
+  if (options.pColumn !== undefined) throw new UsageError('--p-column and --statistic: name the column of statistics with --statistic-column');
+  const df = degreesSource(options.df, options.dfColumn, '--df');
+  const df2 = degreesSource(options.df2, options.df2Column, '--df2');
+  const needed = DEGREES_NEEDED[statistic];
+  if (needed >= 1 && df === undefined) {
+    throw new UsageError(`--statistic ${statistic}: needs degrees of freedom: --df N for all rows, or --df-column COLUMN${needed === 2 ? ' (the numerator\'s), and --df2 or --df2-column (the denominator\'s)' : ''}`);
+  }
+  if (needed === 2 && df2 === undefined) throw new UsageError('--statistic f: needs the denominator degrees of freedom: --df2 N or --df2-column COLUMN');
+  if (needed < 1 && df !== undefined) throw new UsageError(`--statistic ${statistic}: takes no degrees of freedom; drop --df/--df-column`);
+  if (needed < 2 && df2 !== undefined) throw new UsageError(`--statistic ${statistic}: has one number of degrees of freedom; --df2 is for F statistics`);
+  const tail: Tail = options.tail ?? defaultTail(statistic);
+  if (!TAILS_ALLOWED[statistic].includes(tail)) {
+    throw new UsageError(`--tail ${tail}: ${statistic === 'f' ? 'F' : 'chi-square'} statistics are tested in the upper tail only (large values are the evidence)`);
+  }
+  return { kind: 'statistic', statistic, tail, df, df2 };
+}
+
 const FLAGS: Record<string, string> = {
   pColumn: '--p-column',
+  pScale: '--p-scale',
+  statistic: '--statistic',
+  statisticColumn: '--statistic-column',
+  df: '--df',
+  dfColumn: '--df-column',
+  df2: '--df2',
+  df2Column: '--df2-column',
+  tail: '--tail',
   family: '--family',
   delimiter: '--delimiter',
   header: '--header',
@@ -72,7 +173,21 @@ const FLAGS: Record<string, string> = {
   pi0: '--pi0',
   pi0Lambda: '--pi0-lambda',
   pi0Seed: '--pi0-seed',
+  bins: '--bins',
+  plot: '--plot',
 };
+
+/** How to read the table, from the input options (usage errors surface here, before any reading). */
+export function tableReadOptions(options: InputOptions): ReadOptions {
+  const reading = valueReading(options);
+  return {
+    delimiter: options.delimiter,
+    header: options.header,
+    pColumn: reading?.kind === 'statistic' ? options.statisticColumn : options.pColumn,
+    familyColumns: options.family,
+    reading,
+  };
+}
 
 /** Validates raw commander options with a schema; the first problem becomes a UsageError naming its option. */
 export function parseOptions<T extends z.ZodType>(schema: T, raw: unknown): z.output<T> {

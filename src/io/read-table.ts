@@ -11,6 +11,8 @@ import { MISSING_MARKS, isNumberText, readPValue, readWeight, whyNotPValue, whyN
 import { readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
+import type { ValueReading } from './statistic-text.js';
+import { type ValueConverter, valueConverter } from './value-converter.js';
 
 export interface ReadOptions {
   /** The delimiter byte; undefined to sniff it from the first line. */
@@ -29,6 +31,12 @@ export interface ReadOptions {
   readonly lineNumbers?: boolean | undefined;
   /** Group rows by every other column with few distinct values (audit tries them as families). */
   readonly keyColumns?: boolean | undefined;
+  /**
+   * What the value column (pColumn) holds when it is not plain p-values: test
+   * statistics or -log10 p, turned into p-values as they are read. Undefined
+   * for plain p-values.
+   */
+  readonly reading?: ValueReading | undefined;
 }
 
 /** Adjusted p-values a table claims, with the precision each was printed to. */
@@ -72,6 +80,8 @@ export interface Table {
   readonly lines?: Int32Array;
   /** Columns with 2 to 1000 distinct values (other than the p-value and claimed columns), when asked for. */
   readonly keys?: readonly KeyColumn[];
+  /** Whether p was computed (from statistics or -log10 p) rather than read as written. */
+  readonly pComputed: boolean;
   readonly families: FamilyGrouping;
   /** familyValues[f] = the family columns' values that define family f. */
   readonly familyValues: readonly (readonly string[])[];
@@ -94,7 +104,7 @@ const P_COLUMN_NAMES = new Set([
 ]);
 
 
-function normalizedName(name: string): string {
+export function normalizedName(name: string): string {
   return name.toLowerCase().replace(/[^a-z0-9]/g, '');
 }
 
@@ -103,7 +113,7 @@ export function columnLabel(shape: TableShape, column: number): string {
   return shape.names ? `column ${quoteText(shape.names[column])}` : `column ${column + 1}`;
 }
 
-function listColumns(names: readonly string[]): string {
+export function listColumns(names: readonly string[]): string {
   return names.map((name) => quoteText(name, 40)).join(', ');
 }
 
@@ -237,6 +247,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const claimedHalfUnits = new Growable((size) => new Float64Array(size));
   const lines = new Growable((size) => new Int32Array(size));
   let keyTrackers: { column: number; index: Map<string, number>; ids: Growable<Int32Array> }[] = [];
+  let converter: ValueConverter | undefined;
 
   const start = (view: RecordView): boolean => {
     const header = options.header ?? !allNumbers(view);
@@ -245,7 +256,12 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     }
     const names = header ? Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)) : null;
     shape = { delimiter, loneCrEndsLine, names, columnCount: view.fieldCount };
-    pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
+    if (options.reading === undefined) {
+      pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
+    } else {
+      converter = valueConverter(options.reading, shape, options.pColumn, source.name, decimalCommaAllowed);
+      pColumn = converter.column;
+    }
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
     checkFamilyColumns(shape, familyColumns);
     if (options.weightsColumn !== undefined) {
@@ -272,7 +288,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
     }
     const text = fieldText(view, pColumn);
-    const value = readPValue(text, decimalCommaAllowed);
+    const value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
     if (value === 'invalid') {
       throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
     }
@@ -364,6 +380,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
             .map((tracker) => ({ column: tracker.column, families: { ids: tracker.ids.toArray(), count: tracker.index.size } })),
         }
       : {}),
+    pComputed: options.reading !== undefined,
     families: { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
