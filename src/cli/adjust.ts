@@ -18,7 +18,7 @@ Examples:
 
 import { Command, Option } from 'commander';
 import { z } from 'zod';
-import { UsageError, quoteText } from '../errors.js';
+import { IncompleteOutputError, UsageError, quoteText } from '../errors.js';
 import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
@@ -216,11 +216,15 @@ async function writeOutputs(
   };
   const tableFile = openOutput(targets.table ?? '-');
   files.push(tableFile);
+  const sink = new ByteSink(tableFile.stream);
   try {
-    await writeTable(source, table.shape, columns, format, new ByteSink(tableFile.stream), table.p.length);
+    await writeTable(source, table.shape, columns, format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
-    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) abandon(error);
+    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) {
+      const where = targets.table === undefined || targets.table === '-' ? 'standard output' : targets.table;
+      abandon(tableFile.direct && sink.written > 0 ? new IncompleteOutputError(error, where) : error);
+    }
     files.pop();
     tableFile.abort();
   }

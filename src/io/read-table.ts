@@ -7,7 +7,7 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, isNumberText, readPValue, whyNotPValue } from './p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, underflowed, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -46,7 +46,7 @@ export interface Table {
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
 export interface Notice {
-  readonly id: 'header-guessed';
+  readonly id: 'header-guessed' | 'underflow';
   readonly text: string;
 }
 
@@ -74,6 +74,10 @@ function listColumns(names: readonly string[]): string {
 const LOOKS_LIKE_DATA = /^[\s\d.,eE+-]*\d[\s\d.,eE+-]*$/;
 
 function headerHint(names: readonly string[]): string {
+  if (names.some((name) => name.includes('\ufffd'))) {
+    // The header was decoded as UTF-8; a name that is not cannot be matched by typing it.
+    return ' (the header is not valid UTF-8: give the column by position, or convert the file, e.g. iconv -f WINDOWS-1252 -t UTF-8, if it is Latin-1 or Windows-1252 text)';
+  }
   if (!names.some((name) => LOOKS_LIKE_DATA.test(name))) return '';
   return names.length === 1 && /\d\s+\d/.test(names[0] ?? '')
     ? ' (p-values go one per line, or use --values 0.01,0.04,...)'
@@ -155,13 +159,36 @@ function shownText(latin1: string): string {
   return latin1.replace(/[\x80-\xff]/g, (character) => `\\x${character.charCodeAt(0).toString(16)}`);
 }
 
-/** Encodings and compressions that famwise does not read, recognised by their first bytes. */
+/** Whether the input starts with these bytes. */
+function startsWith(head: Buffer, ...bytes: number[]): boolean {
+  return bytes.every((byte, i) => head[i] === byte);
+}
+
+/**
+ * UTF-16 without a byte-order mark: text in the ASCII range has a zero byte
+ * in every other position (after each character in little-endian, before it
+ * in big-endian). Two such pairs at the start are enough; a text table does
+ * not begin with zero bytes. Returns the encoding's name for iconv.
+ */
+function utf16Without(head: Buffer): string | undefined {
+  if (head.length < 4) return undefined;
+  if (head[1] === 0 && head[3] === 0) return 'UTF-16LE';
+  if (head[0] === 0 && head[2] === 0) return 'UTF-16BE';
+  return undefined;
+}
+
+/** Encodings, compressions and spreadsheet files that famwise does not read, recognised by their first bytes. */
 function refuseUnreadable(head: Buffer, name: string): void {
-  if (head[0] === 0x1f && head[1] === 0x8b) {
+  if (startsWith(head, 0x1f, 0x8b)) {
     throw new DataError(`${name}: the file is gzip-compressed; decompress it first, e.g. zcat ${name} | famwise adjust`);
   }
-  if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) {
-    throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f UTF-16 -t UTF-8 ${name}`);
+  const utf16 = startsWith(head, 0xff, 0xfe) || startsWith(head, 0xfe, 0xff) ? 'UTF-16' : utf16Without(head);
+  if (utf16) {
+    throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f ${utf16} -t UTF-8 ${name}`);
+  }
+  // ZIP (.xlsx, .ods) and the older compound file format (.xls).
+  if (startsWith(head, 0x50, 0x4b, 0x03, 0x04) || startsWith(head, 0xd0, 0xcf, 0x11, 0xe0)) {
+    throw new DataError(`${name}: the file is a spreadsheet workbook or an archive, not a text table; save the sheet as CSV (UTF-8) and give famwise that file`);
   }
 }
 
@@ -186,6 +213,8 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const decimalCommaAllowed = delimiter !== COMMA;
   let decimalCommaSeen = false;
   const notices: Notice[] = [];
+  let underflows = 0;
+  let firstUnderflow = '';
   const p = new Growable((size) => new Float64Array(size));
   const familyIds = new Growable((size) => new Int32Array(size));
   const familyIndex = new Map<string, number>();
@@ -217,6 +246,9 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
+    if (underflowed(text, value) && underflows++ === 0) {
+      firstUnderflow = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
+    }
     p.push(value === 'missing' ? NaN : value);
     if (familyColumns.length === 0) {
       familyIds.push(0);
@@ -246,6 +278,10 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
 
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
+  }
+  if (underflows > 0) {
+    const more = underflows > 1 ? ` (and ${underflows - 1} more p-value${underflows > 2 ? 's' : ''} like it)` : '';
+    notices.push({ id: 'underflow', text: `${firstUnderflow} is below the smallest positive number famwise can hold (about 5e-324), so it is read as 0${more}; its adjusted values are 0 as well, and the decisions are unaffected` });
   }
   if (familyColumns.length === 0) familyValues.push([]);
   return {
