@@ -250,6 +250,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     header: fromValues ? true : options.header,
     pColumn: fromValues ? 'p' : options.pColumn,
     familyColumns: options.family,
+    boundsAsValues: options.boundsAsValues,
   });
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);

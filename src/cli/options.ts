@@ -23,7 +23,8 @@ export function addInputOptions(command: Command): Command {
     .option('--family <columns>', 'adjust separately within each combination of these columns\' values (comma-separated, repeatable)', collectList)
     .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first line)')
     .option('--header', 'the first line names the columns (default: yes, unless it holds only numbers)')
-    .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...');
+    .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...')
+    .option('--bounds-as-values', 'read a p-value written as an upper bound (<2e-16, as R prints them) as the bound itself: conservative, the adjusted values in its family become upper bounds');
 }
 
 export const inputOptionsSchema = z.object({
@@ -35,6 +36,7 @@ export const inputOptionsSchema = z.object({
     .transform((value) => DELIMITERS[value] as number)
     .optional(),
   header: z.boolean().optional(),
+  boundsAsValues: z.boolean().default(false),
 });
 
 const FLAGS: Record<string, string> = {

@@ -41,6 +41,20 @@ export function underflowed(text: string, value: PValueText): boolean {
 
 /** A bound, as statistics programs print p-values below their precision: <2e-16, < 0.001, <=.05, >0.99. */
 const BOUND = /^([<>≤≥])=?\s*[\d.,]/;
+const UPPER_BOUND = /^(?:<=?|≤)\s*/;
+
+/**
+ * The value of an upper bound ("<2e-16" -> 2e-16), or undefined if the text
+ * is not one. Using the bound in place of the unknown smaller p-value is
+ * conservative: every procedure's adjusted values only grow with the raw ones.
+ */
+export function readUpperBound(text: string, decimalComma = false): number | undefined {
+  const trimmed = text.trim();
+  const sign = UPPER_BOUND.exec(trimmed);
+  if (!sign) return undefined;
+  const value = readPValue(trimmed.slice(sign[0].length), decimalComma);
+  return typeof value === 'number' ? value : undefined;
+}
 
 /** Why a cell's text is not a p-value, for the error message. */
 export function whyNotPValue(text: string, decimalCommaAllowed = false): string {
@@ -48,7 +62,7 @@ export function whyNotPValue(text: string, decimalCommaAllowed = false): string 
   const value = Number(trimmed.replace(',', '.'));
   const bound = BOUND.exec(trimmed)?.[1];
   if (bound === '<' || bound === '≤') {
-    return 'it is a bound ("less than"), not a value, and famwise will not guess one; if the bound itself will do (it is conservative), write it without the "<"';
+    return 'it is a bound ("less than"), not a value, and famwise will not guess one; to read each such bound as the value (conservative: the adjusted values in its family become upper bounds), use --bounds-as-values';
   }
   if (bound === '>' || bound === '≥') return 'it is a bound ("greater than"), not a value, and famwise will not guess one';
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';

@@ -7,7 +7,7 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, isNumberText, readPValue, underflowed, whyNotPValue } from './p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, readUpperBound, underflowed, whyNotPValue } from './p-value-text.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 
@@ -20,6 +20,8 @@ export interface ReadOptions {
   readonly pColumn?: string | undefined;
   /** Column names or 1-based indices whose value combinations define the families. */
   readonly familyColumns?: readonly string[] | undefined;
+  /** Read an upper bound ("<2e-16") as its value instead of refusing it. */
+  readonly boundsAsValues?: boolean | undefined;
 }
 
 /** The layout of a table, as the writers need it. */
@@ -46,7 +48,7 @@ export interface Table {
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
 export interface Notice {
-  readonly id: 'header-guessed' | 'underflow';
+  readonly id: 'header-guessed' | 'underflow' | 'bounds-read';
   readonly text: string;
 }
 
@@ -213,8 +215,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const decimalCommaAllowed = delimiter !== COMMA;
   let decimalCommaSeen = false;
   const notices: Notice[] = [];
-  let underflows = 0;
-  let firstUnderflow = '';
+  // Values read with a remark (underflow to 0, a bound read as its value): how many, and where the first was.
+  const remarked = { underflow: { count: 0, first: '' }, bound: { count: 0, first: '' } };
+  const remark = (kind: keyof typeof remarked, view: RecordView, table: TableShape, text: string): void => {
+    if (remarked[kind].count++ === 0) remarked[kind].first = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
+  };
   const p = new Growable((size) => new Float64Array(size));
   const familyIds = new Growable((size) => new Int32Array(size));
   const familyIndex = new Map<string, number>();
@@ -241,14 +246,17 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
     }
     const text = fieldText(view, pColumn);
-    const value = readPValue(text, decimalCommaAllowed);
+    let value = readPValue(text, decimalCommaAllowed);
+    const bound = value === 'invalid' && options.boundsAsValues ? readUpperBound(text, decimalCommaAllowed) : undefined;
+    if (bound !== undefined) {
+      value = bound;
+      remark('bound', view, table, text);
+    }
     if (value === 'invalid') {
       throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
-    if (underflowed(text, value) && underflows++ === 0) {
-      firstUnderflow = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
-    }
+    if (underflowed(text, value)) remark('underflow', view, table, text);
     p.push(value === 'missing' ? NaN : value);
     if (familyColumns.length === 0) {
       familyIds.push(0);
@@ -279,9 +287,13 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
   }
-  if (underflows > 0) {
-    const more = underflows > 1 ? ` (and ${underflows - 1} more p-value${underflows > 2 ? 's' : ''} like it)` : '';
-    notices.push({ id: 'underflow', text: `${firstUnderflow} is below the smallest positive number famwise can hold (about 5e-324), so it is read as 0${more}; its adjusted values are 0 as well, and the decisions are unaffected` });
+  const more = (count: number): string => (count > 1 ? ` (and ${count - 1} more p-value${count > 2 ? 's' : ''} like it)` : '');
+  const { underflow, bound } = remarked;
+  if (underflow.count > 0) {
+    notices.push({ id: 'underflow', text: `${underflow.first} is below the smallest positive number famwise can hold (about 5e-324), so it is read as 0${more(underflow.count)}; its adjusted values are 0 as well, and the decisions are unaffected` });
+  }
+  if (bound.count > 0) {
+    notices.push({ id: 'bounds-read', text: `${bound.first} is an upper bound, read as its value${more(bound.count)} (--bounds-as-values), so the adjusted values in its family are upper bounds of the exact ones (conservative)` });
   }
   if (familyColumns.length === 0) familyValues.push([]);
   return {
