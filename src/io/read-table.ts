@@ -194,12 +194,21 @@ function refuseUnreadable(head: Buffer, name: string): void {
   }
 }
 
-function fieldCountMessage(view: RecordView, table: TableShape, firstRow: boolean): string {
+/** Whether the p-value column and the field after it are both whole numbers, as 0,05 split by a comma delimiter would be. */
+function splitDecimalComma(view: RecordView, table: TableShape, pColumn: number): boolean {
+  const whole = (k: number): boolean => k < view.fieldCount && /^\s*\d+\s*$/.test(fieldText(view, k));
+  return table.delimiter === COMMA && view.fieldCount > table.columnCount && whole(pColumn) && whole(pColumn + 1);
+}
+
+function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number, firstRow: boolean): string {
   const fields = `${view.fieldCount} field${view.fieldCount === 1 ? '' : 's'}`;
   const what = table.names ? 'the header has' : 'the first line has';
   let hint = '(a stray delimiter or quote?)';
   if (view.fieldCount === 1 && fieldText(view, 0).trim() === '') hint = '(a line holding only spaces?)';
-  else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
+  else if (splitDecimalComma(view, table, pColumn)) {
+    const text = `${fieldText(view, pColumn)},${fieldText(view, pColumn + 1)}`;
+    hint = `(is ${quoteText(text)} a p-value with a decimal comma? In a comma-separated table it must be quoted; or write the table with ";" between fields)`;
+  } else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
     hint = '(is the first column row names? A table written by R with row names has one field fewer in its header: write it with row.names = FALSE, or col.names = NA)';
   }
   return `${fields} where ${what} ${table.columnCount} ${hint}`;
@@ -243,7 +252,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
 
   const readRow = (view: RecordView, table: TableShape): void => {
     if (view.fieldCount !== table.columnCount) {
-      throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
+      throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, pColumn, p.length === 0)}`);
     }
     const text = fieldText(view, pColumn);
     let value = readPValue(text, decimalCommaAllowed);
