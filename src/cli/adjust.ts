@@ -24,7 +24,7 @@ import { TooFewTestsError, type WithinFamilies, adjustWithinFamilies } from '../
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
-import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
+import { MISSING_MARKS, readPValue, readUpperBound } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
@@ -72,8 +72,6 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   values: z
     .array(z.string())
     .superRefine((items, context) => {
-      const bad = items.findIndex((item) => readPValue(item) === 'invalid');
-      if (bad >= 0) context.addIssue({ code: 'custom', message: `item ${bad + 1}, ${quoteText(items[bad] as string)}, is not a p-value (a number from 0 to 1, or NA)` });
       if (items.every((item) => item.trim() === '')) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
     })
     .optional(),
@@ -115,6 +113,13 @@ function valuesSource(options: AdjustOptions, file: string | undefined): InputSo
   }
   if (options.family.length > 0 || options.pColumn !== undefined) {
     throw new UsageError('--values: --family and --p-column need a table; --values gives a single column of p-values');
+  }
+  const readable = (item: string): boolean => readPValue(item) !== 'invalid' || (options.boundsAsValues && readUpperBound(item) !== undefined);
+  const bad = options.values.findIndex((item) => !readable(item));
+  if (bad >= 0) {
+    const item = options.values[bad] as string;
+    const hint = readUpperBound(item) === undefined ? '' : '; to read an upper bound as its value, add --bounds-as-values';
+    throw new UsageError(`--values: item ${bad + 1}, ${quoteText(item)}, is not a p-value (a number from 0 to 1, or NA)${hint}`);
   }
   // Empty items are missing values; a blank line would not be a row at all.
   const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
