@@ -141,6 +141,11 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
     if (!options.replace) {
       throw new UsageError(`the table already has a column ${quoteText(name)}; use --replace to overwrite it`);
     }
+    // Overwriting one of two would leave the other's stale values beside the new ones.
+    const twin = names.indexOf(name, index + 1);
+    if (twin >= 0) {
+      throw new UsageError(`--replace: the table has two columns named ${quoteText(name)} (columns ${index + 1} and ${twin + 1}); remove or rename one`);
+    }
     return index;
   };
   const { alpha } = options;
