@@ -105,6 +105,7 @@ describe('an interrupt while writing -o FILE', () => {
     child.kill(signal);
     const run = await ended;
     expect(run.status).toBe(status);
+    expect(run.stderr).toBe(`famwise: stopped by ${signal} before finishing; no output file was changed\n`);
     expect(existsSync(output)).toBe(false);
     expect(leftovers(folder)).toEqual([]);
   });

@@ -55,6 +55,7 @@ process.stdout.on('error', (error: NodeJS.ErrnoException) => {
 for (const [signal, status] of [['SIGHUP', 129], ['SIGINT', 130], ['SIGTERM', 143]] as const) {
   process.on(signal, () => {
     removeUnfinishedFiles();
+    process.stderr.write(`famwise: stopped by ${signal} before finishing; no output file was changed\n`);
     process.exit(status);
   });
 }
