@@ -3,8 +3,8 @@
 // -o FILE is never half-written and an existing one never changed; an
 // interrupt leaves no temporary files. The failure mid-way is made by cutting
 // the input file short while famwise writes it out (its second pass).
-import { type ChildProcess, spawn } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, statSync, truncateSync, writeFileSync } from 'node:fs';
+import { type ChildProcess, spawn, spawnSync } from 'node:child_process';
+import { closeSync, existsSync, mkdtempSync, openSync, readFileSync, readdirSync, statSync, truncateSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -108,5 +108,21 @@ describe('an interrupt while writing -o FILE', () => {
     expect(run.stderr).toBe(`famwise: stopped by ${signal} before finishing; no output file was changed\n`);
     expect(existsSync(output)).toBe(false);
     expect(leftovers(folder)).toEqual([]);
+  });
+});
+
+describe('standard output sent into the input file', () => {
+  it('is refused before anything is written (famwise adjust t.csv >> t.csv, or > t.csv, which the shell has already emptied)', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'famwise-self-'));
+    const table = join(folder, 't.csv');
+    writeFileSync(table, 'id,p\na,0.01\nb,0.2\n');
+    for (const extra of [[], ['-o', '-'], ['-o', '/dev/stdout']]) {
+      const stdout = openSync(table, 'a');
+      const run = spawnSync(process.execPath, [CLI, 'adjust', 't.csv', '-q', ...extra], { cwd: folder, stdio: ['ignore', stdout, 'pipe'] });
+      closeSync(stdout);
+      expect(run.status).toBe(2);
+      expect(run.stderr.toString()).toBe('famwise: t.csv: standard output goes into this same file, so famwise would be reading what it writes (with ">" the shell has already emptied it); write to another file, or replace it safely with -o t.csv\n');
+      expect(readFileSync(table, 'utf8')).toBe('id,p\na,0.01\nb,0.2\n');
+    }
   });
 });

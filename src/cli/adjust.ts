@@ -182,10 +182,14 @@ function chooseFormat(options: AdjustOptions, table: Table, toTerminal: boolean)
 /** Where the table and the summary go; '-' (or a path that is standard output) means standard output. */
 function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string } {
   const { output: table, summary } = options;
+  const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
+  if (file !== undefined && file !== '-' && tableToStdout && routeOutput(file).kind === 'stdout') {
+    // famwise adjust t.csv > t.csv: the shell emptied the file before famwise started (with >>, famwise would read what it appends).
+    throw new UsageError(`${file}: standard output goes into this same file, so famwise would be reading what it writes (with ">" the shell has already emptied it); write to another file, or replace it safely with -o ${file}`);
+  }
   if (table !== undefined) checkWritable(table, '--output');
   if (summary === undefined) return { table, summary };
   checkWritable(summary, '--summary');
-  const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
   if (tableToStdout && routeOutput(summary).kind === 'stdout') {
     throw new UsageError(`--summary ${summary}: standard output carries the table; give the summary a file name, or send the table to a file with -o`);
   }
