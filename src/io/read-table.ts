@@ -250,9 +250,18 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     return header;
   };
 
+  // A refused row does not stop the reading: the error names the first and counts the rest, so that one run shows how much is wrong.
+  let firstRefusal = '';
+  const refusedLines: number[] = [];
+  const refuse = (view: RecordView, reason: () => string): void => {
+    if (refusedLines.length === 0) firstRefusal = `${source.name}:${view.line}: ${reason()}`;
+    refusedLines.push(view.line);
+  };
+
   const readRow = (view: RecordView, table: TableShape): void => {
     if (view.fieldCount !== table.columnCount) {
-      throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, pColumn, p.length === 0)}`);
+      refuse(view, () => fieldCountMessage(view, table, pColumn, p.length === 0));
+      return;
     }
     const text = fieldText(view, pColumn);
     let value = readPValue(text, decimalCommaAllowed);
@@ -262,7 +271,8 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       remark('bound', view, table, text);
     }
     if (value === 'invalid') {
-      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+      refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+      return;
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
     if (underflowed(text, value)) remark('underflow', view, table, text);
@@ -295,6 +305,12 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
 
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
+  }
+  if (refusedLines.length > 0) {
+    const others = refusedLines.slice(1);
+    const shown = others.slice(0, 5).join(', ') + (others.length > 5 ? ', ...' : '');
+    const more = others.length === 0 ? '' : `; ${others.length} more row${others.length === 1 ? ' is' : 's are'} refused too (line${others.length === 1 ? '' : 's'} ${shown})`;
+    throw new DataError(firstRefusal + more);
   }
   const more = (count: number): string => (count > 1 ? ` (and ${count - 1} more p-value${count > 2 ? 's' : ''} like it)` : '');
   const { underflow, bound } = remarked;
