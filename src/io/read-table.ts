@@ -252,10 +252,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
 
   // A refused row does not stop the reading: the error names the first and counts the rest, so that one run shows how much is wrong.
   let firstRefusal = '';
-  const refusedLines: number[] = [];
+  let refusedRows = 0;
+  const laterLines: number[] = [];
   const refuse = (view: RecordView, reason: () => string): void => {
-    if (refusedLines.length === 0) firstRefusal = `${source.name}:${view.line}: ${reason()}`;
-    refusedLines.push(view.line);
+    if (refusedRows++ === 0) firstRefusal = `${source.name}:${view.line}: ${reason()}`;
+    else if (laterLines.length < 5) laterLines.push(view.line);
   };
 
   const readRow = (view: RecordView, table: TableShape): void => {
@@ -306,10 +307,10 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
   }
-  if (refusedLines.length > 0) {
-    const others = refusedLines.slice(1);
-    const shown = others.slice(0, 5).join(', ') + (others.length > 5 ? ', ...' : '');
-    const more = others.length === 0 ? '' : `; ${others.length} more row${others.length === 1 ? ' is' : 's are'} refused too (line${others.length === 1 ? '' : 's'} ${shown})`;
+  if (refusedRows > 0) {
+    const others = refusedRows - 1;
+    const shown = laterLines.join(', ') + (others > laterLines.length ? ', ...' : '');
+    const more = others === 0 ? '' : `; ${others} more row${others === 1 ? ' is' : 's are'} refused too (line${others === 1 ? '' : 's'} ${shown})`;
     throw new DataError(firstRefusal + more);
   }
   const more = (count: number): string => (count > 1 ? ` (and ${count - 1} more p-value${count > 2 ? 's' : ''} like it)` : '');
