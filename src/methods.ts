@@ -63,6 +63,8 @@ interface MethodEntry {
   readonly source: string;
   /** Whether the method estimates pi0 with MethodSettings.pi0 (so the pi0 options apply to it). */
   readonly estimatesPi0?: boolean;
+  /** Adaptive procedures scale by an estimate of the share of true nulls, so adjusted values may fall below the raw p-value. */
+  readonly adaptive?: boolean;
   /** Adjusts one family. */
   readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
   /** The weighted form, for procedures that have one. */
@@ -163,6 +165,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
     estimatesPi0: true,
+    adaptive: true,
     run: (family, settings) => {
       // A family with no tests has nothing to estimate pi0 from, and nothing to adjust.
       if (family.m === 0) return { adjusted: new Float64Array(0) };
@@ -177,6 +180,7 @@ const ENTRIES: readonly MethodEntry[] = [
     dependence: 'independence',
     steps: 'step-up',
     source: 'Benjamini, Krieger & Yekutieli (2006), Biometrika 93:491-507',
+    adaptive: true,
     run: plain(bkySorted),
   },
 ];

@@ -335,6 +335,17 @@ describe('errors name the place and the text, with the right status', () => {
     expect(famwise(['adjust'], 'id,p\na,NA\n').stderr).toMatch(/note: the table holds no p-values to adjust/);
   });
 
+  it('refuses a bound among --values as a usage error naming --bounds-as-values, and reads it with that option', () => {
+    const refused = famwise(['adjust', '--values', '<0.001,0.2']);
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toBe('famwise: --values: item 1, "<0.001", is not a p-value (a number from 0 to 1, or NA); to read an upper bound as its value, add --bounds-as-values\n');
+    expect(famwise(['adjust', '--values', 'x,0.2']).stderr).toBe('famwise: --values: item 1, "x", is not a p-value (a number from 0 to 1, or NA)\n');
+    const read = famwise(['adjust', '--values', '<0.001,0.2', '--bounds-as-values', '--methods', 'bonferroni']);
+    expect(read.status).toBe(0);
+    expect(read.stdout).toBe('p,adj_bonferroni,rej_bonferroni\n<0.001,0.002,true\n0.2,0.4,false\n');
+    expect(read.stderr).toMatch(/note: --values:2: column "p": "<0.001" is an upper bound, read as its value/);
+  });
+
   it('writes -o FILE and the summary when all is well', () => {
     const output = join(work, 'ok.csv');
     const run = famwise(['adjust', '-o', output, '--quiet'], 'p\n0.2\n');

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { adjustWithinFamilies, singleFamily } from '../src/families.js';
 import { sniffDelimiter, sniffLoneCr } from '../src/io/dialect.js';
-import { MISSING_MARKS, readPValue } from '../src/io/p-value-text.js';
+import { MISSING_MARKS, readPValue, readUpperBound, underflowed, whyNotPValue } from '../src/io/p-value-text.js';
 import { readTable } from '../src/io/read-table.js';
 import { bufferSource } from '../src/io/source.js';
 import { findMethod, type Method } from '../src/methods.js';
@@ -26,6 +26,31 @@ describe('readPValue', () => {
     expect(readPValue('0,05', true)).toBe(0.05);
     expect(readPValue('0.05', true)).toBe(0.05);
     expect(readPValue('1,5', true)).toBe('invalid');
+  });
+});
+
+describe('underflow, bounds and the reasons given', () => {
+  it('tells a positive number that underflowed to 0 from a written zero', () => {
+    for (const text of ['1e-400', ' 3.5E-999 ', '0.0001e-330']) expect(underflowed(text, readPValue(text))).toBe(true);
+    for (const text of ['0', '0.0', '0e5', '.0', '1e-300', '5e-324', 'NA']) expect(underflowed(text, readPValue(text))).toBe(false);
+  });
+
+  it('reads an upper bound as its value, and nothing else', () => {
+    expect(readUpperBound('<2e-16')).toBe(2e-16);
+    expect(readUpperBound(' < 2.2e-16 ')).toBe(2.2e-16);
+    expect(readUpperBound('<=.001')).toBe(0.001);
+    expect(readUpperBound('≤0.05')).toBe(0.05);
+    expect(readUpperBound('<0,001', true)).toBe(0.001);
+    for (const text of ['<0,001', '>0.5', '≥0.1', '<2', '<', '<NA', '0.05', '<<0.1']) expect(readUpperBound(text)).toBeUndefined();
+  });
+
+  it('says why a cell is not a p-value, naming the option that would accept a bound', () => {
+    expect(whyNotPValue('<2e-16')).toMatch(/bound \("less than"\).*--bounds-as-values/);
+    expect(whyNotPValue('< .001')).toMatch(/--bounds-as-values/);
+    expect(whyNotPValue('>1')).toMatch(/bound \("greater than"\)/);
+    expect(whyNotPValue('5 %')).toMatch(/percentages/);
+    expect(whyNotPValue('-Inf')).toMatch(/infinity/);
+    expect(whyNotPValue('0,05')).toMatch(/decimal comma.*--delimiter/);
   });
 });
 

@@ -24,12 +24,12 @@ Examples:
 
 import { type Command, Option } from 'commander';
 import { z } from 'zod';
-import { DataError, UsageError, quoteText } from '../errors.js';
+import { DataError, IncompleteOutputError, UsageError, quoteText } from '../errors.js';
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
-import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
+import { MISSING_MARKS, readPValue, readUpperBound } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
@@ -70,8 +70,6 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   values: z
     .array(z.string())
     .superRefine((items, context) => {
-      const bad = items.findIndex((item) => readPValue(item) === 'invalid');
-      if (bad >= 0) context.addIssue({ code: 'custom', message: `item ${bad + 1}, ${quoteText(items[bad] as string)}, is not a p-value (a number from 0 to 1, or NA)` });
       if (items.every((item) => item.trim() === '')) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
     })
     .optional(),
@@ -124,6 +122,13 @@ function valuesSource(options: AdjustOptions, file: string | undefined): InputSo
   if (options.family.length > 0 || options.pColumn !== undefined || options.statistic !== undefined || options.pScale !== 'plain') {
     throw new UsageError('--values: --family, --p-column, --p-scale and --statistic need a table; --values gives a single column of p-values');
   }
+  const readable = (item: string): boolean => readPValue(item) !== 'invalid' || (options.boundsAsValues && readUpperBound(item) !== undefined);
+  const bad = options.values.findIndex((item) => !readable(item));
+  if (bad >= 0) {
+    const item = options.values[bad] as string;
+    const hint = readUpperBound(item) === undefined ? '' : '; to read an upper bound as its value, add --bounds-as-values';
+    throw new UsageError(`--values: item ${bad + 1}, ${quoteText(item)}, is not a p-value (a number from 0 to 1, or NA)${hint}`);
+  }
   // Empty items are missing values; a blank line would not be a row at all.
   const lines = options.values.map((item) => (item.trim() === '' ? 'NA' : item));
   return bufferSource(Buffer.from(`p\n${lines.join('\n')}\n`), '--values');
@@ -160,6 +165,11 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
     if (index < 0) return undefined;
     if (!options.replace) {
       throw new UsageError(`the table already has a column ${quoteText(name)}; use --replace to overwrite it`);
+    }
+    // Overwriting one of two would leave the other's stale values beside the new ones.
+    const twin = names.indexOf(name, index + 1);
+    if (twin >= 0) {
+      throw new UsageError(`--replace: the table has two columns named ${quoteText(name)} (columns ${index + 1} and ${twin + 1}); remove or rename one`);
     }
     return index;
   };
@@ -215,11 +225,15 @@ function checkJsonKeys(table: Table, columns: readonly OutputColumn[]): void {
 /** Where the table, the summary and the plot go; '-' (or a path that is standard output) means standard output. */
 function outputTargets(options: AdjustOptions, file: string | undefined): { table?: string; summary?: string; plot?: string } {
   const { output: table, summary, plot } = options;
+  const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
+  if (file !== undefined && file !== '-' && tableToStdout && routeOutput(file).kind === 'stdout') {
+    // famwise adjust t.csv > t.csv: the shell emptied the file before famwise started (with >>, famwise would read what it appends).
+    throw new UsageError(`${file}: standard output goes into this same file, so famwise would be reading what it writes (with ">" the shell has already emptied it); write to another file, or replace it safely with -o ${file}`);
+  }
   if (table !== undefined) checkWritable(table, '--output');
   if (plot !== undefined) checkPlotTarget(plot, [[file, 'the input table'], [table, 'the --output file'], [summary, 'the --summary file']]);
   if (summary === undefined) return { table, summary, plot };
   checkWritable(summary, '--summary');
-  const tableToStdout = table === undefined || routeOutput(table).kind === 'stdout';
   if (tableToStdout && routeOutput(summary).kind === 'stdout') {
     throw new UsageError(`--summary ${summary}: standard output carries the table; give the summary a file name, or send the table to a file with -o`);
   }
@@ -286,13 +300,16 @@ async function writeOutputs(
   };
   const tableFile = openOutput(targets.table ?? '-');
   files.push(tableFile);
+  const sink = new ByteSink(tableFile.stream);
   try {
-    const sink = new ByteSink(tableFile.stream);
     if (format === 'jsonl') await writeJsonLines(source, table.shape, columns, sink, table.p.length);
     else await writeTable(source, table.shape, columns, format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
-    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) abandon(error);
+    if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) {
+      const where = targets.table === undefined || targets.table === '-' ? 'standard output' : targets.table;
+      abandon(tableFile.direct && sink.written > 0 ? new IncompleteOutputError(error, where) : error);
+    }
     files.pop();
     tableFile.abort();
   }
@@ -319,7 +336,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const settings = methodSettings(options);
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
-  const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p' } : tableReadOptions(options);
+  const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p', boundsAsValues: options.boundsAsValues } : tableReadOptions(options);
   const source = fromValues ?? (await openInput(file));
   const table = await readTable(source, { ...readOptions, weightsColumn: options.weights });
   const note = (text: string): void => {

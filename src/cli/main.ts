@@ -5,7 +5,7 @@
 
 import { readFileSync } from 'node:fs';
 import { Command, CommanderError } from 'commander';
-import { FamwiseError } from '../errors.js';
+import { FamwiseError, errorText } from '../errors.js';
 import { EXIT, EXIT_HELP } from '../exit-codes.js';
 import { removeUnfinishedFiles } from '../io/atomic-file.js';
 import { adjustCommand } from './adjust.js';
@@ -48,8 +48,7 @@ function fail(error: unknown): never {
   }
   const code = (error as NodeJS.ErrnoException | undefined)?.code;
   if (code === 'EPIPE') process.exit(EXIT.ok);
-  const message = error instanceof Error ? error.message : String(error);
-  process.stderr.write(`famwise: ${code ? `${message}` : `unexpected error (please report it): ${message}`}\n`);
+  process.stderr.write(`famwise: ${errorText(error)}\n`);
   process.exit(EXIT.dataError);
 }
 
@@ -58,10 +57,11 @@ function fail(error: unknown): never {
 process.stdout.on('error', (error: NodeJS.ErrnoException) => {
   if (error.code !== 'EPIPE') fail(error);
 });
-// An interrupt or a cancelled CI job leaves no temporary files behind.
-for (const [signal, status] of [['SIGINT', 130], ['SIGTERM', 143]] as const) {
+// An interrupt, a closed terminal or a cancelled CI job leaves no temporary files behind.
+for (const [signal, status] of [['SIGHUP', 129], ['SIGINT', 130], ['SIGTERM', 143]] as const) {
   process.on(signal, () => {
     removeUnfinishedFiles();
+    process.stderr.write(`famwise: stopped by ${signal} before finishing; no output file was changed\n`);
     process.exit(status);
   });
 }

@@ -60,7 +60,8 @@ export function addInputOptions(command: Command): Command {
     .option('--df-column <name|index>', 'a column holding each row\'s degrees of freedom, instead of --df')
     .option('--df2 <n>', 'for F statistics: the denominator\'s degrees of freedom')
     .option('--df2-column <name|index>', 'a column holding each row\'s denominator degrees of freedom, instead of --df2')
-    .option('--tail <tail>', 'for z and t: two (default: p = P(|T| >= |t|)), upper (p = P(T >= t): large positive values are evidence) or lower (p = P(T <= t)); chisq and f are always upper');
+    .option('--tail <tail>', 'for z and t: two (default: p = P(|T| >= |t|)), upper (p = P(T >= t): large positive values are evidence) or lower (p = P(T <= t)); chisq and f are always upper')
+    .option('--bounds-as-values', 'read a p-value written as an upper bound (<2e-16, as R prints them) as the bound itself: conservative, the adjusted values in its family become upper bounds');
 }
 
 const positiveNumber = z
@@ -90,6 +91,7 @@ export const inputOptionsSchema = z.object({
   df2: positiveNumber.optional(),
   df2Column: z.string().min(1, 'needs a column name or a 1-based position').optional(),
   tail: z.enum(['two', 'upper', 'lower'], { message: 'accepts two, upper or lower' }).optional(),
+  boundsAsValues: z.boolean().default(false),
 });
 
 /** --alpha, shared by the commands that decide at a level. */
@@ -128,6 +130,7 @@ export function valueReading(options: InputOptions): ValueReading | undefined {
     return options.pScale === 'minus-log10' ? { kind: 'minus-log10' } : undefined;
   }
   if (options.pScale !== 'plain') throw new UsageError('--p-scale and --statistic: the column holds p-values or statistics, not both');
+  if (options.boundsAsValues) throw new UsageError('--bounds-as-values and --statistic: bounds are a way of writing p-values; a column of statistics has none');
   if (options.pColumn !== undefined) throw new UsageError('--p-column and --statistic: name the column of statistics with --statistic-column');
   const df = degreesSource(options.df, options.dfColumn, '--df');
   const df2 = degreesSource(options.df2, options.df2Column, '--df2');
@@ -186,6 +189,7 @@ export function tableReadOptions(options: InputOptions): ReadOptions {
     pColumn: reading?.kind === 'statistic' ? options.statisticColumn : options.pColumn,
     familyColumns: options.family,
     reading,
+    boundsAsValues: options.boundsAsValues,
   };
 }
 

@@ -12,6 +12,8 @@ export class ByteSink {
   private text = '';
   private size = 0;
   private failure: Error | undefined;
+  /** Bytes handed to the stream so far. */
+  written = 0;
 
   constructor(private readonly stream: Writable) {
     stream.on('error', (error: Error) => {
@@ -42,6 +44,7 @@ export class ByteSink {
     this.pieces = [];
     this.text = '';
     this.size = 0;
+    this.written += block.length;
     if (this.stream.write(block)) return;
     await new Promise<void>((resolve, reject) => {
       const onDrain = (): void => {

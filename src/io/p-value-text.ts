@@ -35,13 +35,40 @@ function readUnsignedNumber(text: string, decimalComma: boolean): PValueText {
   return DECIMAL.test(trimmed) ? Number(trimmed) : 'invalid';
 }
 
+/**
+ * Whether a cell that read as 0 was written as a positive number too small
+ * for a double (below about 5e-324, such as 1e-400): it underflowed.
+ */
+export function underflowed(text: string, value: PValueText): boolean {
+  return value === 0 && /[1-9]/.test(text.trim().split(/[eE]/)[0] ?? '');
+}
+
+/** A bound, as statistics programs print p-values below their precision: <2e-16, < 0.001, <=.05, >0.99. */
+const BOUND = /^([<>≤≥])=?\s*[\d.,]/;
+const UPPER_BOUND = /^(?:<=?|≤)\s*/;
+
+/**
+ * The value of an upper bound ("<2e-16" -> 2e-16), or undefined if the text
+ * is not one. Using the bound in place of the unknown smaller p-value is
+ * conservative: every procedure's adjusted values only grow with the raw ones.
+ */
+export function readUpperBound(text: string, decimalComma = false): number | undefined {
+  const trimmed = text.trim();
+  const sign = UPPER_BOUND.exec(trimmed);
+  if (!sign) return undefined;
+  const value = readPValue(trimmed.slice(sign[0].length), decimalComma);
+  return typeof value === 'number' ? value : undefined;
+}
+
 /** Why a cell's text is not a p-value, for the error message. */
 export function whyNotPValue(text: string, decimalCommaAllowed = false): string {
   const trimmed = text.trim();
   const value = Number(trimmed.replace(',', '.'));
-  if (/^<\s*\d/.test(trimmed)) {
-    return 'it is a bound ("less than"), not a value; if the bound itself will do, write it without the "<"';
+  const bound = BOUND.exec(trimmed)?.[1];
+  if (bound === '<' || bound === '≤') {
+    return 'it is a bound ("less than"), not a value, and famwise will not guess one; to read each such bound as the value (conservative: the adjusted values in its family become upper bounds), use --bounds-as-values';
   }
+  if (bound === '>' || bound === '≥') return 'it is a bound ("greater than"), not a value, and famwise will not guess one';
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
   if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';
   if (Number.isFinite(value) && trimmed !== '' && (value < 0 || Object.is(value, -0))) return 'p-values cannot be negative';

@@ -7,7 +7,7 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, isNumberText, readPValue, readWeight, whyNotPValue, whyNotWeight } from './p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
@@ -37,6 +37,8 @@ export interface ReadOptions {
    * for plain p-values.
    */
   readonly reading?: ValueReading | undefined;
+  /** Read an upper bound ("<2e-16") as its value instead of refusing it. */
+  readonly boundsAsValues?: boolean | undefined;
 }
 
 /** Adjusted p-values a table claims, with the precision each was printed to. */
@@ -93,7 +95,7 @@ export interface Table {
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
 export interface Notice {
-  readonly id: 'header-guessed';
+  readonly id: 'header-guessed' | 'underflow' | 'bounds-read';
   readonly text: string;
 }
 
@@ -121,6 +123,10 @@ export function listColumns(names: readonly string[]): string {
 const LOOKS_LIKE_DATA = /^[\s\d.,eE+-]*\d[\s\d.,eE+-]*$/;
 
 function headerHint(names: readonly string[]): string {
+  if (names.some((name) => name.includes('\ufffd'))) {
+    // The header was decoded as UTF-8; a name that is not cannot be matched by typing it.
+    return ' (the header is not valid UTF-8: give the column by position, or convert the file, e.g. iconv -f WINDOWS-1252 -t UTF-8, if it is Latin-1 or Windows-1252 text)';
+  }
   if (!names.some((name) => LOOKS_LIKE_DATA.test(name))) return '';
   return names.length === 1 && /\d\s+\d/.test(names[0] ?? '')
     ? ' (p-values go one per line, or use --values 0.01,0.04,...)'
@@ -202,22 +208,54 @@ function shownText(latin1: string): string {
   return latin1.replace(/[\x80-\xff]/g, (character) => `\\x${character.charCodeAt(0).toString(16)}`);
 }
 
-/** Encodings and compressions that famwise does not read, recognised by their first bytes. */
+/** Whether the input starts with these bytes. */
+function startsWith(head: Buffer, ...bytes: number[]): boolean {
+  return bytes.every((byte, i) => head[i] === byte);
+}
+
+/**
+ * UTF-16 without a byte-order mark: text in the ASCII range has a zero byte
+ * in every other position (after each character in little-endian, before it
+ * in big-endian). Two such pairs at the start are enough; a text table does
+ * not begin with zero bytes. Returns the encoding's name for iconv.
+ */
+function utf16Without(head: Buffer): string | undefined {
+  if (head.length < 4) return undefined;
+  if (head[1] === 0 && head[3] === 0) return 'UTF-16LE';
+  if (head[0] === 0 && head[2] === 0) return 'UTF-16BE';
+  return undefined;
+}
+
+/** Encodings, compressions and spreadsheet files that famwise does not read, recognised by their first bytes. */
 function refuseUnreadable(head: Buffer, name: string): void {
-  if (head[0] === 0x1f && head[1] === 0x8b) {
+  if (startsWith(head, 0x1f, 0x8b)) {
     throw new DataError(`${name}: the file is gzip-compressed; decompress it first, e.g. zcat ${name} | famwise adjust`);
   }
-  if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) {
-    throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f UTF-16 -t UTF-8 ${name}`);
+  const utf16 = startsWith(head, 0xff, 0xfe) || startsWith(head, 0xfe, 0xff) ? 'UTF-16' : utf16Without(head);
+  if (utf16) {
+    throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f ${utf16} -t UTF-8 ${name}`);
+  }
+  // ZIP (.xlsx, .ods) and the older compound file format (.xls).
+  if (startsWith(head, 0x50, 0x4b, 0x03, 0x04) || startsWith(head, 0xd0, 0xcf, 0x11, 0xe0)) {
+    throw new DataError(`${name}: the file is a spreadsheet workbook or an archive, not a text table; save the sheet as CSV (UTF-8) and give famwise that file`);
   }
 }
 
-function fieldCountMessage(view: RecordView, table: TableShape, firstRow: boolean): string {
+/** Whether the p-value column and the field after it are both whole numbers, as 0,05 split by a comma delimiter would be. */
+function splitDecimalComma(view: RecordView, table: TableShape, pColumn: number): boolean {
+  const whole = (k: number): boolean => k < view.fieldCount && /^\s*\d+\s*$/.test(fieldText(view, k));
+  return table.delimiter === COMMA && view.fieldCount > table.columnCount && whole(pColumn) && whole(pColumn + 1);
+}
+
+function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number, firstRow: boolean): string {
   const fields = `${view.fieldCount} field${view.fieldCount === 1 ? '' : 's'}`;
   const what = table.names ? 'the header has' : 'the first line has';
   let hint = '(a stray delimiter or quote?)';
   if (view.fieldCount === 1 && fieldText(view, 0).trim() === '') hint = '(a line holding only spaces?)';
-  else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
+  else if (splitDecimalComma(view, table, pColumn)) {
+    const text = `${fieldText(view, pColumn)},${fieldText(view, pColumn + 1)}`;
+    hint = `(is ${quoteText(text)} a p-value with a decimal comma? In a comma-separated table it must be quoted; or write the table with ";" between fields)`;
+  } else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
     hint = '(is the first column row names? A table written by R with row names has one field fewer in its header: write it with row.names = FALSE, or col.names = NA)';
   }
   return `${fields} where ${what} ${table.columnCount} ${hint}`;
@@ -233,6 +271,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const decimalCommaAllowed = delimiter !== COMMA;
   let decimalCommaSeen = false;
   const notices: Notice[] = [];
+  // Values read with a remark (underflow to 0, a bound read as its value): how many, and where the first was.
+  const remarked = { underflow: { count: 0, first: '' }, bound: { count: 0, first: '' } };
+  const remark = (kind: keyof typeof remarked, view: RecordView, table: TableShape, text: string): void => {
+    if (remarked[kind].count++ === 0) remarked[kind].first = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
+  };
   const p = new Growable((size) => new Float64Array(size));
   const familyIds = new Growable((size) => new Int32Array(size));
   const familyIndex = new Map<string, number>();
@@ -283,16 +326,33 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     return header;
   };
 
+  // A refused row does not stop the reading: the error names the first and counts the rest, so that one run shows how much is wrong.
+  let firstRefusal = '';
+  let refusedRows = 0;
+  const laterLines: number[] = [];
+  const refuse = (view: RecordView, reason: () => string): void => {
+    if (refusedRows++ === 0) firstRefusal = `${source.name}:${view.line}: ${reason()}`;
+    else if (laterLines.length < 5) laterLines.push(view.line);
+  };
+
   const readRow = (view: RecordView, table: TableShape): void => {
     if (view.fieldCount !== table.columnCount) {
-      throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
+      refuse(view, () => fieldCountMessage(view, table, pColumn, p.length === 0));
+      return;
     }
     const text = fieldText(view, pColumn);
-    const value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
+    let value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
+    const bound = value === 'invalid' && !converter && options.boundsAsValues ? readUpperBound(text, decimalCommaAllowed) : undefined;
+    if (bound !== undefined) {
+      value = bound;
+      remark('bound', view, table, text);
+    }
     if (value === 'invalid') {
-      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+      refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+      return;
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
+    if (!converter && underflowed(text, value)) remark('underflow', view, table, text);
     p.push(value === 'missing' ? NaN : value);
     if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
     if (claimedColumn >= 0) readRowClaim(view, table);
@@ -363,6 +423,20 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
 
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
+  }
+  if (refusedRows > 0) {
+    const others = refusedRows - 1;
+    const shown = laterLines.join(', ') + (others > laterLines.length ? ', ...' : '');
+    const more = others === 0 ? '' : `; ${others} more row${others === 1 ? ' is' : 's are'} refused too (line${others === 1 ? '' : 's'} ${shown})`;
+    throw new DataError(firstRefusal + more);
+  }
+  const more = (count: number): string => (count > 1 ? ` (and ${count - 1} more p-value${count > 2 ? 's' : ''} like it)` : '');
+  const { underflow, bound } = remarked;
+  if (underflow.count > 0) {
+    notices.push({ id: 'underflow', text: `${underflow.first} is below the smallest positive number famwise can hold (about 5e-324), so it is read as 0${more(underflow.count)}; its adjusted values are 0 as well, and the decisions are unaffected` });
+  }
+  if (bound.count > 0) {
+    notices.push({ id: 'bounds-read', text: `${bound.first} is an upper bound, read as its value${more(bound.count)} (--bounds-as-values), so the adjusted values in its family are upper bounds of the exact ones (conservative)` });
   }
   if (familyColumns.length === 0) familyValues.push([]);
   return {

@@ -116,6 +116,6 @@ export async function writeTable(
 
 export function checkRowCount(source: InputSource, rows: number, expected: number): void {
   if (rows !== expected) {
-    throw new DataError(`${source.name}: changed while famwise was reading it (${expected} rows at first, ${rows} now); the output is incomplete`);
+    throw new DataError(`${source.name}: changed while famwise was reading it (${expected} rows at first, ${rows} now)`);
   }
 }
