@@ -100,7 +100,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70',
     run: plain(holmSorted),
-    adjustWeighted: (p, weights) => weightedHolm(p, weights),
+    adjustWeighted: weightedHolm,
   },
   {
     token: 'sidak',
@@ -161,9 +161,9 @@ const ENTRIES: readonly MethodEntry[] = [
     token: 'storey',
     name: 'Storey q-values',
     controls: 'FDR',
-    dependence: 'independence or positive dependence (PRDS)',
+    dependence: 'independence (weak dependence, asymptotically)',
     steps: 'step-up',
-    source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498',
+    source: 'Storey (2002), J. R. Stat. Soc. B 64:479-498; Storey & Tibshirani (2003), PNAS 100:9440-9445',
     estimatesPi0: true,
     adaptive: true,
     run: (family, settings) => {
@@ -214,4 +214,24 @@ export function findMethod(token: string): Method | undefined {
 export function columnNames(method: Method): { adjusted: string; rejected: string } {
   const stem = method.token.replaceAll('-', '_');
   return { adjusted: `adj_${stem}`, rejected: `rej_${stem}` };
+}
+
+/** Names people type for procedures, from papers and habit, and the token they most likely mean. */
+const LIKELY_MEANT: Readonly<Record<string, string>> = {
+  fdr: 'bh',
+  benjaminihochberg: 'bh',
+  benjaminiyekutieli: 'by',
+  bonf: 'bonferroni',
+  bonferoni: 'bonferroni',
+  qvalue: 'storey',
+  qvalues: 'storey',
+  twostage: 'bky',
+};
+
+/** The token an unknown name most likely means (a column spelling such as holm_sidak, or a common name), if any. */
+export function likelyMethod(name: string): string | undefined {
+  const lower = name.toLowerCase();
+  const dashed = lower.replaceAll('_', '-').replace(/^(adj|rej)-/, '');
+  if (findMethod(dashed)) return dashed;
+  return LIKELY_MEANT[lower.replace(/[^a-z]/g, '')];
 }

@@ -59,6 +59,44 @@ describe('famwise audit on tables adjusted by R', () => {
     expect(report.mismatches[0]).toMatchObject({ line: 2 });
   });
 
+  it('passes a table whose raw p-values were printed to 3 significant digits', () => {
+    const run = famwise(['audit', fixture('rounded-p.csv'), '--adjusted-column', 'padj', '--method', 'bh']);
+    expect(run.stdout).toContain('bh reproduces 400 of 400 claimed values, printed to 3 significant digits');
+    expect(run.status).toBe(0);
+  });
+
+  it('names rows filtered before adjusting, and --only-adjusted-rows audits the rest', () => {
+    const args = ['audit', fixture('independent-filter.csv'), '--adjusted-column', 'padj', '--method', 'bh'];
+    const named = famwise([...args, '--json']);
+    expect(named.status).toBe(3);
+    expect(JSON.parse(named.stdout).explanation.kind).toBe('only-claimed-rows');
+    expect(JSON.parse(named.stdout).explanation.text).toMatch(/filter that is independent of the p-values under the null .* --only-adjusted-rows/);
+    const only = famwise([...args, '--only-adjusted-rows']);
+    expect(only.status).toBe(0);
+    expect(only.stdout).toMatch(/rows without an adjusted value left out/);
+  });
+
+  it('names values that were not adjusted at all', () => {
+    const rows = Array.from({ length: 40 }, (_, i) => `g${i},${((i + 1) / 41).toFixed(4)},${((i + 1) / 41).toFixed(4)}`);
+    const run = famwise(['audit', '--adjusted-column', 'padj', '--method', 'bh'], `id,p,padj\n${rows.join('\n')}\n`);
+    expect(run.status).toBe(3);
+    expect(run.stdout).toContain('the values are the raw p-values, not adjusted at all (40 of 40');
+  });
+
+  it('says when the explanation also needs another procedure', () => {
+    // Bonferroni at m = 5000 for 600 rows is neither bh nor m = 600.
+    const table = famwise(['adjust', adjusted, '--p-column', 'p', '--methods', 'bonferroni', '--tests', '5000', '--format', 'csv', '-q']).stdout;
+    const run = famwise(['audit', '--adjusted-column', 'adj_bonferroni', '--p-column', 'p', '--method', 'bh'], table);
+    expect(run.status).toBe(3);
+    expect(run.stdout).toMatch(/adjusted over 5000 tests, and with bonferroni, not bh, .* --tests 5000 --method bonferroni/);
+  });
+
+  it('tries other families even when --tests is smaller than the whole table', () => {
+    const run = famwise(['audit', adjusted, '--adjusted-column', 'bh_by_chrom', '--family', 'chrom', '--method', 'holm', '--tests', '300']);
+    expect(run.status).toBe(3);
+    expect(run.stderr).toBe('');
+  });
+
   it('gives the same bytes on every run (deterministic)', () => {
     const first = famwise(['audit', adjusted, '--adjusted-column', 'bh_by_chrom', '--json']);
     const second = famwise(['audit', adjusted, '--adjusted-column', 'bh_by_chrom', '--json']);

@@ -114,3 +114,18 @@ describe('weighted procedures', () => {
     ).toThrow(/no weighted form/);
   });
 });
+
+describe('weights at the ends of the double range', () => {
+  it('give the same answer as moderate weights in the same ratios', () => {
+    const p = Float64Array.of(0.01, 0.02, 0.03);
+    for (const token of WEIGHTED_TOKENS) {
+      const moderate = adjustWeighted(method(token), p, Float64Array.of(1, 1, 1e-8));
+      const huge = adjustWeighted(method(token), p, Float64Array.of(1e308, 1e308, 1e300));
+      const tiny = adjustWeighted(method(token), Float64Array.of(0.01, 0.02, 0.03), Float64Array.of(0, 1e-320, 2e-320));
+      const plain = adjustWeighted(method(token), Float64Array.of(0.01, 0.02, 0.03), Float64Array.of(0, 1, 2));
+      huge.forEach((value, i) => expect(value).toBeCloseTo(moderate[i] as number, 12));
+      tiny.forEach((value, i) => expect(value).toBeCloseTo(plain[i] as number, 2));
+      expect(Array.from(tiny).every((value) => value >= 0 && value <= 1)).toBe(true);
+    }
+  });
+});

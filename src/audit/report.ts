@@ -19,6 +19,8 @@ export interface AuditContext {
   readonly recomputed: Float64Array;
   /** Line number of each data row. */
   readonly lines: Int32Array;
+  /** Rows without an adjusted value were left out (--only-adjusted-rows). */
+  readonly onlyAdjustedRows: boolean;
   /** How many mismatching rows to list. */
   readonly listed: number;
 }
@@ -106,6 +108,8 @@ function explanationText(result: AuditResult, context: AuditContext, stated: Tri
   const token = candidate.method.token;
   const reproduces = `${token} reproduces ${comparison.matched} of ${comparison.compared} values`;
   const statedToken = stated.candidate.method.token;
+  // When the explanation also needs another procedure, say so: fixing one mistake alone would not pass.
+  const andMethod = context.statedMethod && candidate.method !== context.statedMethod ? `, and with ${token}, not ${statedToken}` : '';
   switch (explanation.kind) {
     case 'rounding': {
       const first = comparison.flipped[0] as number;
@@ -113,13 +117,15 @@ function explanationText(result: AuditResult, context: AuditContext, stated: Tri
       const flips = comparison.flipped.length;
       return `the values match ${token} to the digits printed, but they were rounded to ${digitsText(digits)}, and ${flips === 1 ? '1 of them falls' : `${flips} of them fall`} on the other side of alpha = ${context.alpha} from the exact value${flips === 1 ? '' : 's'} (line ${row.line}: printed ${shown(row.claimed)}, exact ${shownBeside(row.recomputed, row.claimed)}); keep more digits, or decide on the exact values`;
     }
+    case 'unadjusted':
+      return `the values are the raw p-values, not adjusted at all (${comparison.matched} of ${comparison.compared} equal the p-value of their row)`;
     case 'method':
       return `the values are ${token}, not ${statedToken}: ${reproduces} (families and tests as stated)`;
     case 'families':
-      return `the values were adjusted ${describeFamilies(candidate.grouping)}, not ${describeFamilies(stated.candidate.grouping)}: ${reproduces} that way`;
+      return `the values were adjusted ${describeFamilies(candidate.grouping)}, not ${describeFamilies(stated.candidate.grouping)}${andMethod}: ${reproduces} that way`;
     case 'only-claimed-rows': {
       const adjusted = comparison.compared;
-      return `only the ${adjusted} rows that carry a value were adjusted (m = ${adjusted}), though ${presentRows(context.p)} rows have p-values: rows were dropped before adjusting, so the adjustment understates the multiplicity; ${reproduces} that way`;
+      return `only the ${adjusted} rows that carry a value were adjusted (m = ${adjusted}${andMethod}), though ${presentRows(context.p)} rows have p-values: if the others were removed by a filter that is independent of the p-values under the null (such as a filter on mean counts), that is accepted practice and --only-adjusted-rows audits the adjusted rows alone; if they were removed for their p-values, the adjustment understates the multiplicity (${reproduces} that way)`;
     }
     case 'tests': {
       const fitted = candidate.testsByFamily ?? [];
@@ -128,10 +134,13 @@ function explanationText(result: AuditResult, context: AuditContext, stated: Tri
       const present = presentRows(context.p);
       const where = describeTests(candidate);
       if (context.tests !== undefined && single && m < context.tests) {
-        return `the values were adjusted over ${m} tests, not the ${context.tests} given by --tests: the table was filtered before adjusting, so the adjustment understates the multiplicity (${reproduces} with ${where})`;
+        return `the values were adjusted over ${m} tests${andMethod}, not the ${context.tests} given by --tests: the table was filtered before adjusting, so the adjustment understates the multiplicity (${reproduces} with ${where})`;
       }
       if (context.tests === undefined && single && fitted.length === 1 && m > present) {
-        return `the values were adjusted over ${m} tests, more than the ${present} p-values the table holds: right if the table was filtered after adjusting (audit with --tests ${m} to confirm), wrong otherwise (${reproduces} with ${where})`;
+        return `the values were adjusted over ${m} tests${andMethod}, more than the ${present} p-values the table holds: right if the table was filtered after adjusting (audit with --tests ${m}${andMethod ? ` --method ${token}` : ''} to confirm), wrong otherwise (${reproduces} with ${where})`;
+      }
+      if (context.tests === undefined && m > present) {
+        return `the values were adjusted over more tests than each family holds (${where}${andMethod}): right if the table was filtered after adjusting, wrong otherwise (${reproduces})`;
       }
       return `the values fit ${token} with ${where}, not ${describeTests(stated.candidate)} (${reproduces})`;
     }
@@ -180,17 +189,23 @@ export function auditReport(result: AuditResult, context: AuditContext): AuditRe
 }
 
 function digitsText(digits: number | null): string {
+  if (digits === null) return 'full precision';
   return digits === 1 ? '1 significant digit' : `${digits} significant digits`;
 }
 
 /**
- * A recomputed value with enough digits to tell it from the claimed one (at
- * least six; one more than the claim shows); the JSON report keeps every digit.
+ * A recomputed value with enough digits to tell it from the claimed one: the
+ * fewest (six at least) whose text differs from the claim's; the JSON report
+ * keeps every digit.
  */
 function shownBeside(value: number | null, claimed: number | null): string {
   if (value === null) return '(none)';
-  const claimedDigits = claimed === null ? 0 : String(claimed).replace(/e.*$/, '').replace(/^[0.]+/, '').replace('.', '').length;
-  return String(Number(value.toPrecision(Math.min(17, Math.max(6, claimedDigits + 1)))));
+  const claimText = claimed === null ? '' : String(claimed);
+  for (let digits = 6; digits < 17; digits++) {
+    const text = String(Number(value.toPrecision(digits)));
+    if (text !== claimText) return text;
+  }
+  return String(value);
 }
 
 function shown(value: number | null): string {
@@ -202,7 +217,8 @@ export function auditText(report: AuditReport, context: AuditContext): string {
   const lines: string[] = [];
   const families = report.families.length === 0 ? 'the whole table as one family' : `families by ${report.families.join(', ')}`;
   const m = report.tests === null ? `the p-values present${report.families.length === 0 ? ` (${presentRows(context.p)})` : ' in each family'}` : String(report.tests);
-  lines.push(`audit of column ${JSON.stringify(report.column)} in ${context.source}: ${families}, m = ${m}, alpha = ${report.alpha}`);
+  const left = context.onlyAdjustedRows ? '; rows without an adjusted value left out' : '';
+  lines.push(`audit of column ${JSON.stringify(report.column)} in ${context.source}: ${families}, m = ${m}, alpha = ${report.alpha}${left}`);
   const also = report.matchingMethods.filter((token) => token !== report.method);
   const alsoText = also.length > 0 ? ` (so do ${also.join(', ')}: with these p-values they coincide)` : '';
   lines.push(`${report.method} reproduces ${report.matched} of ${report.compared} claimed values${report.digits === null ? ' (printed at full precision)' : `, printed to ${digitsText(report.digits)}`}${report.matched === report.compared ? alsoText : ''}`);

@@ -29,26 +29,17 @@ import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFa
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
-import { MISSING_MARKS, readPValue, readUpperBound } from '../io/p-value-text.js';
+import { MISSING_MARKS, isNumberText, readPValue, readUpperBound } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
-import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
+import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { checkPlotTarget, discoveriesPlot } from './plot-output.js';
 import { alphaSchema, checkWritable, collectList, inputOptionsSchema, openInput, samePath, tableCommand, tableReadOptions, testsSchema } from './options.js';
 
-
-/** Names people type for procedures, from other tools and papers, and the token they most likely mean. */
-const LIKELY_MEANT: Readonly<Record<string, string>> = {
-  fdr: 'bh',
-  benjaminihochberg: 'bh',
-  benjaminiyekutieli: 'by',
-  bonf: 'bonferroni',
-  bonferoni: 'bonferroni',
-};
 
 const adjustOptionsSchema = inputOptionsSchema.extend({
   methods: z
@@ -57,7 +48,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
     .superRefine((tokens, context) => {
       const unknown = tokens.find((token) => !findMethod(token));
       if (unknown !== undefined) {
-        const likely = LIKELY_MEANT[unknown.replace(/[^a-z]/g, '')];
+        const likely = likelyMethod(unknown);
         const suggestion = likely ? `did you mean ${likely}? ` : '';
         context.addIssue({ code: 'custom', message: `unknown method ${quoteText(unknown)}; ${suggestion}the methods are ${METHOD_TOKENS.join(', ')}` });
       }
@@ -83,7 +74,7 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
   pi0: z.enum(PI0_ESTIMATORS, { message: `accepts ${PI0_ESTIMATORS.join(', ')}` }).optional(),
   pi0Lambda: z
     .string()
-    .refine((text) => text.trim() !== '' && Number(text) >= 0 && Number(text) < 1, 'needs a tuning value from 0 up to (not including) 1, such as 0.5')
+    .refine((text) => isNumberText(text.trim()) && Number(text) >= 0 && Number(text) < 1, 'needs a tuning value from 0 up to (not including) 1, such as 0.5')
     .transform(Number)
     .optional(),
   pi0Seed: z

@@ -18,14 +18,15 @@ Examples (without --method, audit finds the procedure that fits):
 
 import type { Command } from 'commander';
 import { z } from 'zod';
-import { type Grouping, auditClaims, recompute } from '../audit/audit.js';
-import { settleBareIntegers } from '../audit/matching.js';
+import { type Grouping, type Printed, auditClaims, presentPerFamily, recompute } from '../audit/audit.js';
+import { columnHalfUnits } from '../audit/matching.js';
 import { auditReport, auditText } from '../audit/report.js';
 import { UsageError, quoteText } from '../errors.js';
 import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';
 import { singleFamily } from '../families.js';
-import { readTable } from '../io/read-table.js';
-import { METHOD_TOKENS, findMethod } from '../methods.js';
+import { type Table, readTable } from '../io/read-table.js';
+import { familyLabel, familyRecord } from '../summary.js';
+import { METHOD_TOKENS, findMethod, likelyMethod } from '../methods.js';
 import { alphaSchema, inputOptionsSchema, openInput, tableCommand, tableReadOptions, testsSchema } from './options.js';
 
 const auditOptionsSchema = inputOptionsSchema.extend({
@@ -33,9 +34,14 @@ const auditOptionsSchema = inputOptionsSchema.extend({
   method: z
     .string()
     .transform((token) => token.toLowerCase())
-    .refine((token) => findMethod(token) !== undefined, { message: `is not a method; the methods are ${METHOD_TOKENS.join(', ')}` })
+    .superRefine((token, context) => {
+      if (findMethod(token)) return;
+      const likely = likelyMethod(token);
+      context.addIssue({ code: 'custom', message: `is not a method; ${likely ? `did you mean ${likely}? ` : ''}the methods are ${METHOD_TOKENS.join(', ')}` });
+    })
     .transform((token) => findMethod(token))
     .optional(),
+  onlyAdjustedRows: z.boolean().default(false),
   alpha: alphaSchema,
   tests: testsSchema,
   mismatches: z
@@ -54,38 +60,47 @@ export function auditCommand(): Command {
     .option('--method <token>', `the procedure the values claim to come from: ${METHOD_TOKENS.join(', ')} (default: find the one that fits)`)
     .option('--alpha <level>', 'the level at which decisions are compared (default: 0.05)')
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them')
+    .option('--only-adjusted-rows', 'leave rows without an adjusted value out of the check (and out of m), as for a table filtered independently of the p-values before adjusting')
     .option('--mismatches <n>', 'list at most this many mismatching rows (default: 10)')
     .option('--json', 'print the report as JSON, for scripts');
 }
 
 async function runAudit(file: string | undefined, options: AuditOptions): Promise<void> {
   const source = await openInput(file);
-  const table = await readTable(source, { ...tableReadOptions(options), claimedColumn: options.adjustedColumn, lineNumbers: true, keyColumns: true });
+  const table = await readTable(source, {
+    ...tableReadOptions(options),
+    claimedColumn: options.adjustedColumn,
+    lineNumbers: true,
+    keyColumns: true,
+    pPrecision: true,
+  });
   const claimed = table.claimed as NonNullable<typeof table.claimed>;
-  const claims = { ...claimed, halfUnits: settleBareIntegers(claimed.values, claimed.halfUnits) };
+  const claims: Printed = { values: claimed.values, halfUnits: columnHalfUnits(claimed.values, claimed.halfUnits) };
+  // Rows filtered out before adjusting (no adjusted value) are, with --only-adjusted-rows, not tests at all.
+  const values = options.onlyAdjustedRows ? table.p.map((value, row) => (Number.isNaN(claims.values[row]) ? NaN : value)) : table.p;
+  const p: Printed = { values, halfUnits: columnHalfUnits(values, table.pHalfUnits as Float64Array) };
   const nameOf = (column: number): string => table.shape.names?.[column] ?? String(column + 1);
-  const stated: Grouping = { columns: table.familyColumns.map(nameOf), families: table.families };
+  const familyColumnNames = table.familyColumns.map(nameOf);
+  const stated: Grouping = { columns: familyColumnNames, families: table.families };
   // Alternatives: no families at all, and each other column with few distinct values.
   const alternatives: Grouping[] = [
-    ...(table.familyColumns.length > 0 ? [{ columns: [], families: singleFamily(table.p.length) }] : []),
+    ...(table.familyColumns.length > 0 ? [{ columns: [], families: singleFamily(values.length) }] : []),
     ...(table.keys ?? [])
       .filter((key) => !(table.familyColumns.length === 1 && table.familyColumns[0] === key.column))
       .map((key) => ({ columns: [nameOf(key.column)], families: key.families })),
   ];
-  if (options.tests !== undefined) {
-    const largest = Math.max(0, ...countPresentByFamily(table.p, stated));
-    if (options.tests < largest) throw new UsageError(`--tests ${options.tests}: a family holds ${largest} p-values; --tests must be at least that`);
-  }
-  const result = auditClaims(table.p, claims, [stated, ...alternatives], { alpha: options.alpha, method: options.method, tests: options.tests });
+  if (options.tests !== undefined) checkTests(options.tests, presentPerFamily(values, stated.families), table, familyColumnNames);
+  const result = auditClaims(p, claims, [stated, ...alternatives], { alpha: options.alpha, method: options.method, tests: options.tests });
   const context = {
     source: source.name,
-    column: nameOf(claims.column),
+    column: nameOf(claimed.column),
     alpha: options.alpha,
     tests: options.tests,
     statedMethod: options.method,
-    p: table.p,
+    onlyAdjustedRows: options.onlyAdjustedRows,
+    p: values,
     claims,
-    recomputed: recompute(table.p, claims, result.stated.candidate),
+    recomputed: recompute(p, claims, result.stated.candidate).value,
     lines: table.lines as Int32Array,
     listed: options.mismatches,
   };
@@ -97,10 +112,11 @@ async function runAudit(file: string | undefined, options: AuditOptions): Promis
   }
 }
 
-function countPresentByFamily(p: Float64Array, grouping: Grouping): number[] {
-  const counts = new Array<number>(grouping.families.count).fill(0);
-  p.forEach((value, row) => {
-    if (!Number.isNaN(value)) counts[grouping.families.ids[row] as number]++;
-  });
-  return counts;
+/** --tests must cover every family; the message names the largest. */
+function checkTests(tests: number, present: Int32Array, table: Table, familyColumnNames: readonly string[]): void {
+  const largest = present.reduce((best, count, f) => (count > (present[best] as number) ? f : best), 0);
+  const count = present[largest] ?? 0;
+  if (tests >= count) return;
+  const where = familyColumnNames.length === 0 ? 'the table' : `family ${familyLabel(familyRecord(familyColumnNames, table.familyValues[largest] ?? []))}`;
+  throw new UsageError(`--tests ${tests}: ${where} holds ${count} p-values; --tests must be at least that`);
 }

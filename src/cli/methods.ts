@@ -40,7 +40,8 @@ export function methodsText(): string {
     return [
       `${method.token.padEnd(width)}${method.name} (${traits})`,
       `${indent}valid under ${method.dependence}`,
-      `${indent}${method.source}`,
+      // Several sources go one to a line, so that the block fits 80 columns.
+      ...method.source.split('; ').map((source) => `${indent}${source}`),
     ].join('\n');
   }).join('\n\n') + '\n';
 }

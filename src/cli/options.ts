@@ -173,6 +173,7 @@ const FLAGS: Record<string, string> = {
   adjustedColumn: '--adjusted-column',
   method: '--method',
   mismatches: '--mismatches',
+  onlyAdjustedRows: '--only-adjusted-rows',
   pi0: '--pi0',
   pi0Lambda: '--pi0-lambda',
   pi0Seed: '--pi0-seed',

@@ -31,3 +31,11 @@ export function readPrintedValue(text: string, decimalComma = false): PrintedVal
   return { value, halfUnit: 0.5 * 10 ** (exponent - decimals) };
 }
 
+
+/** Adjusted values printed elsewhere may exceed 1 by this much (1.0000000000000002 from summing in another order). */
+const ABOVE_ONE = 1e-9;
+
+/** Whether a printed value is admissible as an adjusted p-value. */
+export function admissibleClaim(value: number): boolean {
+  return value >= 0 && value <= 1 + ABOVE_ONE;
+}

@@ -8,7 +8,7 @@ import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
-import { readPrintedValue } from './printed-value.js';
+import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
@@ -29,6 +29,8 @@ export interface ReadOptions {
   readonly claimedColumn?: string | undefined;
   /** Keep each data row's line number (for messages about rows after reading). */
   readonly lineNumbers?: boolean | undefined;
+  /** Keep the precision each p-value was printed with (audit compares to it). */
+  readonly pPrecision?: boolean | undefined;
   /** Group rows by every other column with few distinct values (audit tries them as families). */
   readonly keyColumns?: boolean | undefined;
   /**
@@ -80,6 +82,8 @@ export interface Table {
   readonly claimed?: ClaimedColumn;
   /** Line number of each data row, when asked for. */
   readonly lines?: Int32Array;
+  /** Half a unit of the last digit each p-value was printed with (BARE_INTEGER for a bare 0 or 1; 0 when computed), when asked for. */
+  readonly pHalfUnits?: Float64Array;
   /** Columns with 2 to 1000 distinct values (other than the p-value and claimed columns), when asked for. */
   readonly keys?: readonly KeyColumn[];
   /** Whether p was computed (from statistics or -log10 p) rather than read as written. */
@@ -289,6 +293,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const claimedValues = new Growable((size) => new Float64Array(size));
   const claimedHalfUnits = new Growable((size) => new Float64Array(size));
   const lines = new Growable((size) => new Int32Array(size));
+  const pHalfUnits = new Growable((size) => new Float64Array(size));
   let keyTrackers: { column: number; index: Map<string, number>; ids: Growable<Int32Array> }[] = [];
   let converter: ValueConverter | undefined;
 
@@ -357,6 +362,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
     if (claimedColumn >= 0) readRowClaim(view, table);
     if (options.lineNumbers) lines.push(view.line);
+    if (options.pPrecision) pHalfUnits.push(value === 'missing' ? NaN : converter || bound !== undefined ? 0 : (readPrintedValue(text, decimalCommaAllowed)?.halfUnit ?? 0));
     if (keyTrackers.length > 0) trackKeys(view);
     if (familyColumns.length === 0) {
       familyIds.push(0);
@@ -391,7 +397,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   const readRowClaim = (view: RecordView, table: TableShape): void => {
     const text = fieldText(view, claimedColumn);
     const printed = MISSING_MARKS.includes(text.trim()) ? { value: NaN, halfUnit: NaN } : readPrintedValue(text, decimalCommaAllowed);
-    if (printed === undefined || printed.value < 0 || printed.value > 1) {
+    if (printed === undefined || !(Number.isNaN(printed.value) || admissibleClaim(printed.value))) {
       throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, claimedColumn)}: ${quoteText(text)} is not an adjusted p-value: expected a number from 0 to 1 or a missing-value mark`);
     }
     claimedValues.push(printed.value);
@@ -447,6 +453,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     ...(weightsColumn >= 0 ? { weightsColumn, weights: weights.toArray() } : {}),
     ...(claimedColumn >= 0 ? { claimed: { column: claimedColumn, values: claimedValues.toArray(), halfUnits: claimedHalfUnits.toArray() } } : {}),
     ...(options.lineNumbers ? { lines: lines.toArray() } : {}),
+    ...(options.pPrecision ? { pHalfUnits: pHalfUnits.toArray() } : {}),
     ...(options.keyColumns
       ? {
           keys: keyTrackers

@@ -14,7 +14,9 @@
 // the arithmetic is BH's to the last bit (x * 1 is x). Rejecting q <= alpha
 // is BH at level alpha / pi0.
 //
-// Like BH it assumes independent or positively dependent tests, and it
+// Its FDR control is proven for independent tests (Storey, Taylor &
+// Siegmund 2004, finite-sample with a +1 in the count; asymptotically also
+// under weak dependence), not for positive dependence in general, and it
 // relies on pi0 being estimated well: with strong correlation between tests
 // the p-values above lambda can cluster and pi0 can come out far too low, and
 // with a few hundred tests or fewer the estimate is noisy.

@@ -4,8 +4,8 @@
 // weights of mean 1: order the hypotheses by p / w, find the largest k with
 // p(k) / w(k) <= k alpha / m, and reject the k first. Hypotheses with large
 // weights get through more easily and the FDR stays at or below alpha under
-// independence (Genovese, Roeder & Wasserman 2006, theorem 1) and positive
-// dependence. The adjusted value of the i-th in order is the minimum over
+// independence (Genovese, Roeder & Wasserman 2006, theorem 1; the proof there
+// is for independent tests). The adjusted value of the i-th in order is the minimum over
 // j >= i of m (p(j) / w(j)) / j, capped at 1. With all weights 1 it is BH.
 //
 // Cost: one sort by p / w, then one linear pass.

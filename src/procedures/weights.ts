@@ -13,19 +13,23 @@
 
 /** Weights scaled to mean 1; all-equal weights become exactly 1. Throws a RangeError when none is positive. */
 export function normalisedWeights(weights: Float64Array): Float64Array {
-  let total = 0;
+  let largest = 0;
   let allEqual = true;
   for (let i = 0; i < weights.length; i++) {
     const w = weights[i];
     if (!(w >= 0 && w < Infinity)) throw new RangeError(`weight at position ${i} is ${w}; weights must be finite numbers >= 0`);
-    total += w;
+    largest = Math.max(largest, w);
     if (w !== weights[0]) allEqual = false;
   }
-  if (weights.length > 0 && !(total > 0)) throw new RangeError('the weights are all zero');
+  if (weights.length > 0 && largest === 0) throw new RangeError('the weights are all zero');
   // Equal weights mean no weighting; exactly 1 makes the weighted procedures equal the unweighted ones to the bit.
   if (allEqual) return new Float64Array(weights.length).fill(1);
-  const scale = weights.length / total;
-  return weights.map((w) => w * scale);
+  // Dividing by the largest first keeps the sum finite (weights near 1e308) and the smallest nonzero (near 1e-320).
+  const scaled = weights.map((w) => w / largest);
+  let total = 0;
+  for (let i = 0; i < scaled.length; i++) total += scaled[i];
+  const factor = scaled.length / total;
+  return scaled.map((w) => w * factor);
 }
 
 /** p / w, the value weighted procedures order and scale; a weight of 0 gives Infinity (never rejected). */
