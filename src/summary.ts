@@ -4,7 +4,7 @@
 import type { Pi0Estimate } from './estimators/pi0.js';
 import type { WithinFamilies } from './families.js';
 import type { Method } from './methods.js';
-import { alignedTable } from './text-table.js';
+import { alignedTable, printable } from './text-table.js';
 
 export interface SummaryRow {
   /** The family's defining values by column name, or null when the table is one family. */
@@ -60,13 +60,13 @@ export function familyRecord(names: readonly string[], values: readonly string[]
 
 /** Text that tells families apart: values with spaces at their ends, or empty, are quoted. */
 function shownValue(value: string): string {
-  return value === '' || value.trim() !== value || /[",=]/.test(value) ? JSON.stringify(value) : value;
+  return printable(value === '' || value.trim() !== value || /[",=]/.test(value) ? JSON.stringify(value) : value);
 }
 
 export function familyLabel(family: Record<string, string> | null): string {
   if (family === null) return '(all rows)';
   return Object.entries(family)
-    .map(([name, value]) => `${name}=${shownValue(value)}`)
+    .map(([name, value]) => `${printable(name)}=${shownValue(value)}`)
     .join(', ');
 }
 

@@ -20,9 +20,26 @@ function width(text: string): number {
   return columns;
 }
 
-/** A cell on one line: line breaks and tabs are shown as escapes rather than breaking the layout. */
+// Characters that would act on the terminal or reorder the text around them
+// rather than show: C0 and C1 controls, DEL, and the bidirectional controls.
+const CONTROL = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g;
+const NAMED: Readonly<Record<string, string>> = { '\r': '\\r', '\n': '\\n', '\t': '\\t' };
+
+/**
+ * Text made safe to print: line breaks and tabs as \n, \r, \t, other control
+ * and bidirectional characters as \xHH or \u{HHHH}, so that no table value
+ * can colour, move or reorder what a terminal (or an SVG) shows.
+ */
+export function printable(text: string): string {
+  return text.replace(CONTROL, (character) => {
+    const code = character.codePointAt(0) as number;
+    return NAMED[character] ?? (code <= 0xff ? `\\x${code.toString(16).padStart(2, '0')}` : `\\u{${code.toString(16)}}`);
+  });
+}
+
+/** A cell on one line: line breaks, tabs and other controls are shown as escapes rather than breaking the layout. */
 function oneLine(cell: string): string {
-  return /[\r\n\t]/.test(cell) ? cell.replace(/\r/g, '\\r').replace(/\n/g, '\\n').replace(/\t/g, '\\t') : cell;
+  return printable(cell);
 }
 
 export function alignedTable(rawHeader: readonly string[], rawRows: readonly (readonly string[])[]): string {

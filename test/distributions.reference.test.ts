@@ -133,3 +133,16 @@ describe('why the tails are computed here rather than by jstat (jstat 1.9.6)', (
     expect(pFromStatistic('chisq', 'upper', 110, 1)).toBeGreaterThan(1e-26);
   });
 });
+
+describe('statistics so large that their square overflows', () => {
+  // R 4.2.2: pt(1e160, 0.5, lower.tail = FALSE) = 3.2070097541422949e-81,
+  // pt(1e160, 0.001, lower.tail = FALSE) = 0.3444840773032849,
+  // pf(1e200, 2, 3, lower.tail = FALSE) = 1.8371173070873032e-300 (run by hand, printed with 17 digits).
+  const close = (actual: number, expected: number): void => expect(Math.abs(actual - expected) / expected).toBeLessThan(1e-12);
+  it('keep the far tail of t and F through the logarithm of x', () => {
+    close(pFromStatistic('t', 'upper', 1e160, 0.5), 3.2070097541422949e-81);
+    close(pFromStatistic('t', 'upper', 1e160, 0.001), 0.3444840773032849);
+    close(pFromStatistic('t', 'two', -1e160, 0.5), 2 * 3.2070097541422949e-81);
+    close(pFromStatistic('f', 'upper', 1e200, 2, 3), 1.8371173070873032e-300);
+  });
+});

@@ -222,7 +222,13 @@ function outputTargets(options: AdjustOptions, file: string | undefined): { tabl
     throw new UsageError(`${file}: standard output goes into this same file, so famwise would be reading what it writes (with ">" the shell has already emptied it); write to another file, or replace it safely with -o ${file}`);
   }
   if (table !== undefined) checkWritable(table, '--output');
-  if (plot !== undefined) checkPlotTarget(plot, [[file, 'the input table'], [table, 'the --output file'], [summary, 'the --summary file']]);
+  if (plot !== undefined) {
+    checkPlotTarget(plot, [[file, 'the input table'], [table, 'the --output file'], [summary, 'the --summary file']]);
+    const plotToStdout = routeOutput(plot).kind === 'stdout';
+    if (plotToStdout && (tableToStdout || (summary !== undefined && routeOutput(summary).kind === 'stdout'))) {
+      throw new UsageError(`--plot ${plot}: standard output already carries the ${tableToStdout ? 'table' : 'summary'}; give the plot a file name`);
+    }
+  }
   if (summary === undefined) return { table, summary, plot };
   checkWritable(summary, '--summary');
   if (tableToStdout && routeOutput(summary).kind === 'stdout') {

@@ -42,6 +42,7 @@ const auditOptionsSchema = inputOptionsSchema.extend({
     .transform((token) => findMethod(token))
     .optional(),
   onlyAdjustedRows: z.boolean().default(false),
+  quiet: z.boolean().default(false),
   alpha: alphaSchema,
   tests: testsSchema,
   mismatches: z
@@ -62,7 +63,8 @@ export function auditCommand(): Command {
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them')
     .option('--only-adjusted-rows', 'leave rows without an adjusted value out of the check (and out of m), as for a table filtered independently of the p-values before adjusting')
     .option('--mismatches <n>', 'list at most this many mismatching rows (default: 10)')
-    .option('--json', 'print the report as JSON, for scripts');
+    .option('--json', 'print the report as JSON, for scripts')
+    .option('-q, --quiet', 'print no notes on standard error (the report still goes to standard output)');
 }
 
 async function runAudit(file: string | undefined, options: AuditOptions): Promise<void> {
@@ -74,6 +76,10 @@ async function runAudit(file: string | undefined, options: AuditOptions): Promis
     keyColumns: true,
     pPrecision: true,
   });
+  const note = (text: string): void => {
+    if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
+  };
+  for (const notice of table.notices) note(notice.text);
   const claimed = table.claimed as NonNullable<typeof table.claimed>;
   const claims: Printed = { values: claimed.values, halfUnits: columnHalfUnits(claimed.values, claimed.halfUnits) };
   // Rows filtered out before adjusting (no adjusted value) are, with --only-adjusted-rows, not tests at all.
@@ -107,9 +113,7 @@ async function runAudit(file: string | undefined, options: AuditOptions): Promis
   const report = auditReport(result, context);
   process.stdout.write(options.json ? `${JSON.stringify(report, null, 2)}\n` : auditText(report, context));
   if (report.verdict === 'mismatch') process.exitCode = EXIT.mismatch;
-  if (claims.values.every((value) => Number.isNaN(value))) {
-    process.stderr.write(`famwise: note: column ${quoteText(context.column)} holds no values to check\n`);
-  }
+  if (claims.values.every((value) => Number.isNaN(value))) note(`column ${quoteText(context.column)} holds no values to check`);
 }
 
 /** --tests must cover every family; the message names the largest. */

@@ -90,7 +90,11 @@ export const inputOptionsSchema = z.object({
   dfColumn: z.string().min(1, 'needs a column name or a 1-based position').optional(),
   df2: positiveNumber.optional(),
   df2Column: z.string().min(1, 'needs a column name or a 1-based position').optional(),
-  tail: z.enum(['two', 'upper', 'lower'], { message: 'accepts two, upper or lower' }).optional(),
+  tail: z
+    .string()
+    .transform((tail) => tail.toLowerCase())
+    .pipe(z.enum(['two', 'upper', 'lower'], { message: 'accepts two, upper or lower' }))
+    .optional(),
   boundsAsValues: z.boolean().default(false),
 });
 
@@ -127,6 +131,9 @@ export function valueReading(options: InputOptions): ValueReading | undefined {
   if (statistic === undefined) {
     const stray = (['statisticColumn', 'df', 'dfColumn', 'df2', 'df2Column', 'tail'] as const).find((key) => options[key] !== undefined);
     if (stray) throw new UsageError(`${FLAGS[stray]} needs --statistic (z, t, chisq or f)`);
+    if (options.pScale === 'minus-log10' && options.boundsAsValues) {
+      throw new UsageError('--bounds-as-values and --p-scale minus-log10: bounds are a way of writing p-values; a column of -log10 p has none');
+    }
     return options.pScale === 'minus-log10' ? { kind: 'minus-log10' } : undefined;
   }
   if (options.pScale !== 'plain') throw new UsageError('--p-scale and --statistic: the column holds p-values or statistics, not both');
@@ -217,6 +224,11 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);
   if (stat.isDirectory()) throw new UsageError(`${file}: is a folder, not a table`);
+  try {
+    accessSync(file, constants.R_OK);
+  } catch {
+    throw new UsageError(`${file}: is not readable (permission denied)`);
+  }
   // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it in memory.
   return stat.isFile() ? fileSource(file) : streamSource(createReadStream(file), file);
 }

@@ -69,9 +69,24 @@ export function regularizedBeta(x: number, y: number, a: number, b: number): num
   return 1 - (Math.exp(logFront) * betaFraction(y, b, a)) / b;
 }
 
+/**
+ * I_x(a, b) for x so small (below 1e-300) that 1 - x is 1 and the
+ * continued fraction is 1 to double precision: x^a / (a B(a, b)), from the
+ * logarithm of x, which stays finite where x itself underflows.
+ */
+function regularizedBetaOfTinyX(logX: number, a: number, b: number): number {
+  return Math.exp(a * logX - logBeta(a, b)) / a;
+}
+
+/** Beyond this, the square of a t statistic over its scale, or df1 times F, would overflow or lose x to underflow. */
+const HUGE = 1e150;
+
 /** P(|T| > |t|) for T ~ Student's t with df degrees of freedom (df > 0). */
 export function studentTTwoTail(t: number, df: number): number {
   if (!Number.isFinite(t)) return 0;
+  const ratio = Math.abs(t) / Math.sqrt(df);
+  // x = df / (df + t^2) = 1 / (1 + ratio^2); for a huge ratio that is ratio^-2, known through its log.
+  if (ratio > HUGE) return regularizedBetaOfTinyX(-2 * Math.log(ratio), df / 2, 0.5);
   const square = t * t;
   return regularizedBeta(df / (df + square), square / (df + square), df / 2, 0.5);
 }
@@ -86,6 +101,8 @@ export function studentTUpperTail(t: number, df: number): number {
 export function fUpperTail(f: number, df1: number, df2: number): number {
   if (f <= 0) return 1;
   if (f === Infinity) return 0;
+  // x = df2 / (df2 + df1 f); when df1 f dwarfs df2, that is df2 / (df1 f), known through its log.
+  if (f > HUGE * (df2 / df1)) return regularizedBetaOfTinyX(Math.log(df2) - Math.log(df1) - Math.log(f), df2 / 2, df1 / 2);
   const scaled = df1 * f;
   return regularizedBeta(df2 / (df2 + scaled), scaled / (df2 + scaled), df2 / 2, df1 / 2);
 }

@@ -52,6 +52,9 @@ function normalTwoTail(z: number): number {
  * check that values lie in each kind's range (chisq and f: >= 0; df > 0).
  */
 export function pFromStatistic(kind: StatisticKind, tail: Tail, value: number, df = NaN, df2 = NaN): number {
+  // An infinite statistic (a written number beyond the doubles, such as 1e400) sits at the end of every tail.
+  if (value === Infinity) return tail === 'lower' ? 1 : 0;
+  if (value === -Infinity) return tail === 'upper' ? 1 : 0;
   switch (kind) {
     case 'z':
       if (tail === 'two') return normalTwoTail(value);

@@ -57,14 +57,16 @@ export function readUpperBound(text: string, decimalComma = false): number | und
   const sign = UPPER_BOUND.exec(trimmed);
   if (!sign) return undefined;
   const value = readPValue(trimmed.slice(sign[0].length), decimalComma);
-  return typeof value === 'number' ? value : undefined;
+  // "<0" bounds nothing: no p-value is below 0.
+  return typeof value === 'number' && value > 0 ? value : undefined;
 }
 
 /** Why a cell's text is not a p-value, for the error message. */
-export function whyNotPValue(text: string, decimalCommaAllowed = false): string {
+export function whyNotPValue(text: string, decimalCommaAllowed = false, boundsAsValues = false): string {
   const trimmed = text.trim();
   const value = Number(trimmed.replace(',', '.'));
   const bound = BOUND.exec(trimmed)?.[1];
+  if ((bound === '<' || bound === '≤') && boundsAsValues) return 'a bound is read as its value only when that value is a p-value above 0, like <2e-16';
   if (bound === '<' || bound === '≤') {
     return 'it is a bound ("less than"), not a value, and famwise will not guess one; to read each such bound as the value (conservative: the adjusted values in its family become upper bounds), use --bounds-as-values';
   }
@@ -72,7 +74,10 @@ export function whyNotPValue(text: string, decimalCommaAllowed = false): string 
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
   if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';
   if (Number.isFinite(value) && trimmed !== '' && (value < 0 || Object.is(value, -0))) return 'p-values cannot be negative';
-  if (Number.isFinite(value) && trimmed !== '' && value > 1) return 'p-values cannot exceed 1 (is this column a statistic, or -log10 p?)';
+  if (Number.isFinite(value) && trimmed !== '' && value > 1 && value < 1 + 1e-12) {
+    return 'p-values cannot exceed 1; this one exceeds it only in the last digits, as some programs compute a p-value of 1 (round it to 1 upstream)';
+  }
+  if (Number.isFinite(value) && trimmed !== '' && value > 1) return 'p-values cannot exceed 1 (is this column a statistic, or -log10 p? see --statistic and --p-scale)';
   if (!decimalCommaAllowed && /^\d*,\d+$/.test(trimmed)) {
     return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
   }

@@ -7,12 +7,12 @@ import type { FamilyGrouping } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
-import { MISSING_MARKS, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
+import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
-import { type ValueConverter, valueConverter } from './value-converter.js';
+import { CellRefusal, type ValueConverter, valueConverter } from './value-converter.js';
 
 export interface ReadOptions {
   /** The delimiter byte; undefined to sniff it from the first line. */
@@ -255,8 +255,11 @@ function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number,
   const fields = `${view.fieldCount} field${view.fieldCount === 1 ? '' : 's'}`;
   const what = table.names ? 'the header has' : 'the first line has';
   let hint = '(a stray delimiter or quote?)';
+  const hasLoneCr = Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)).some((text) => /\r(?!\n)/.test(text));
   if (view.fieldCount === 1 && fieldText(view, 0).trim() === '') hint = '(a line holding only spaces?)';
-  else if (splitDecimalComma(view, table, pColumn)) {
+  else if (hasLoneCr) {
+    hint = '(it holds a lone carriage return, the line break of old Mac files, so two lines may run together here: convert the line endings, e.g. tr "\\r" "\\n")';
+  } else if (splitDecimalComma(view, table, pColumn)) {
     const text = `${fieldText(view, pColumn)},${fieldText(view, pColumn + 1)}`;
     hint = `(is ${quoteText(text)} a p-value with a decimal comma? In a comma-separated table it must be quoted; or write the table with ";" between fields)`;
   } else if (firstRow && table.names && view.fieldCount === table.columnCount + 1) {
@@ -276,7 +279,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   let decimalCommaSeen = false;
   const notices: Notice[] = [];
   // Values read with a remark (underflow to 0, a bound read as its value): how many, and where the first was.
-  const remarked = { underflow: { count: 0, first: '' }, bound: { count: 0, first: '' } };
+  const remarked = { underflow: { count: 0, first: '' }, computedUnderflow: { count: 0, first: '' }, bound: { count: 0, first: '' } };
   const remark = (kind: keyof typeof remarked, view: RecordView, table: TableShape, text: string): void => {
     if (remarked[kind].count++ === 0) remarked[kind].first = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
   };
@@ -298,6 +301,10 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
   let converter: ValueConverter | undefined;
 
   const start = (view: RecordView): boolean => {
+    // Spreadsheets may begin a CSV file with a line naming its delimiter, "sep=;".
+    if (view.fieldCount <= 2 && /^sep=.?$/i.test(fieldText(view, 0))) {
+      throw new DataError(`${source.name}:${view.line}: the first line, ${quoteText(fieldText(view, 0) + (view.fieldCount === 2 ? String.fromCharCode(delimiter) : ''))}, is a spreadsheet's note of the delimiter, not a header; remove it, e.g. tail -n +2 ${source.name === '<stdin>' ? '' : `${source.name} `}| famwise ...`);
+    }
     const header = options.header ?? !allNumbers(view);
     if (options.header === undefined && !header) {
       notices.push({ id: 'header-guessed', text: 'the first line holds only numbers, so it is read as data, not as a header (say --header if it is one)' });
@@ -307,7 +314,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (options.reading === undefined) {
       pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     } else {
-      converter = valueConverter(options.reading, shape, options.pColumn, source.name, decimalCommaAllowed);
+      converter = valueConverter(options.reading, shape, options.pColumn, decimalCommaAllowed);
       pColumn = converter.column;
     }
     familyColumns = (options.familyColumns ?? []).map((wanted) => resolveColumn(shape as TableShape, wanted, '--family'));
@@ -346,18 +353,25 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       return;
     }
     const text = fieldText(view, pColumn);
-    let value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
+    let value: PValueText;
+    try {
+      value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
+    } catch (error) {
+      if (!(error instanceof CellRefusal)) throw error;
+      refuse(view, () => error.reason);
+      return;
+    }
     const bound = value === 'invalid' && !converter && options.boundsAsValues ? readUpperBound(text, decimalCommaAllowed) : undefined;
     if (bound !== undefined) {
       value = bound;
       remark('bound', view, table, text);
     }
     if (value === 'invalid') {
-      refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+      refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed, options.boundsAsValues)}`);
       return;
     }
     if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
-    if (!converter && underflowed(text, value)) remark('underflow', view, table, text);
+    if (converter ? value === 0 : underflowed(text, value)) remark(converter ? 'computedUnderflow' : 'underflow', view, table, text);
     p.push(value === 'missing' ? NaN : value);
     if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
     if (claimedColumn >= 0) readRowClaim(view, table);
@@ -437,7 +451,10 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     throw new DataError(firstRefusal + more);
   }
   const more = (count: number): string => (count > 1 ? ` (and ${count - 1} more p-value${count > 2 ? 's' : ''} like it)` : '');
-  const { underflow, bound } = remarked;
+  const { underflow, computedUnderflow, bound } = remarked;
+  if (computedUnderflow.count > 0) {
+    notices.push({ id: 'underflow', text: `${computedUnderflow.first} has a p-value below the smallest positive number famwise can hold (about 5e-324), so it is 0${more(computedUnderflow.count)}; its adjusted values are 0 as well, and the decisions are unaffected` });
+  }
   if (underflow.count > 0) {
     notices.push({ id: 'underflow', text: `${underflow.first} is below the smallest positive number famwise can hold (about 5e-324), so it is read as 0${more(underflow.count)}; its adjusted values are 0 as well, and the decisions are unaffected` });
   }

@@ -63,14 +63,14 @@ export function readNumber(text: string, decimalComma: boolean): number | 'missi
   let trimmed = text.trim();
   if (missing.has(trimmed)) return 'missing';
   if (decimalComma && trimmed.includes(',')) trimmed = trimmed.replace(',', '.');
-  if (!isNumberText(trimmed)) return 'invalid';
-  const value = Number(trimmed);
-  return Number.isFinite(value) ? value : 'invalid';
+  // A written number too large for a double (1e400) reads as an infinity; its p-value is 0, as for any huge statistic.
+  return isNumberText(trimmed) ? Number(trimmed) : 'invalid';
 }
 
-function expectedNumber(decimalComma: boolean): string {
+function expectedNumber(kind: StatisticKind | 'minus-log10', decimalComma: boolean): string {
   const marks = MISSING_MARKS.filter(Boolean).join(', ');
-  return `expected a number like 2.31, -1.5 or 4e1${decimalComma ? ' (or 2,31)' : ''}, or a missing-value mark (${marks}, or empty)`;
+  const examples = kind === 'minus-log10' ? '2.31, 0.5 or 1.2e1' : '2.31, -1.5 or 4e1';
+  return `expected a number like ${examples}${decimalComma ? ' (or 2,31)' : ''}, or a missing-value mark (${marks}, or empty)`;
 }
 
 /** Why a value cell was refused; undefined when it is acceptable. */
@@ -80,7 +80,7 @@ export function whyNotValue(kind: StatisticKind | 'minus-log10', value: number |
     if (!decimalComma && /^[+-]?\d*,\d+$/.test(text.trim())) {
       return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
     }
-    return expectedNumber(decimalComma);
+    return expectedNumber(kind, decimalComma);
   }
   if (kind === 'minus-log10' && value < 0) return '-log10 p cannot be negative (p would exceed 1); is this column already a p-value, or a log without the minus?';
   if ((kind === 'chisq' || kind === 'f') && value < 0) return `${VALUE_NAMES[kind]}s cannot be negative`;

@@ -4,7 +4,7 @@
 // that name the file, line, column and text. read-table.ts asks for one only
 // when the user chose such a reading; plain p-values never pass through here.
 
-import { DataError, UsageError, quoteText } from '../errors.js';
+import { UsageError, quoteText } from '../errors.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { type TableShape, columnLabel, listColumns, normalizedName, resolveColumn } from './read-table.js';
 import {
@@ -19,6 +19,13 @@ import {
   whyNotDegrees,
   whyNotValue,
 } from './statistic-text.js';
+
+/** A cell the converter cannot read; the reader reports it with its file and line, and goes on to count the rest. */
+export class CellRefusal extends Error {
+  constructor(readonly reason: string) {
+    super(reason);
+  }
+}
 
 export interface ValueConverter {
   /** The value column's index. */
@@ -64,13 +71,15 @@ function resolveDegrees(shape: TableShape, source: DegreesSource | undefined, op
  * position) or the one named like the reading's values; degrees-of-freedom
  * columns are resolved now, so that a wrong name fails before any row is read.
  */
-export function valueConverter(reading: ValueReading, shape: TableShape, wanted: string | undefined, sourceName: string, decimalComma: boolean): ValueConverter {
+export function valueConverter(reading: ValueReading, shape: TableShape, wanted: string | undefined, decimalComma: boolean): ValueConverter {
   const column = wanted === undefined ? findValueColumn(shape, reading) : resolveColumn(shape, wanted, valueOption(reading));
   const degrees =
     reading.kind === 'statistic'
       ? [resolveDegrees(shape, reading.df, '--df-column'), resolveDegrees(shape, reading.df2, '--df2-column')].slice(0, degreesNeeded(reading))
       : [];
   const kind = valueKind(reading);
+  const same = degrees.find((which) => 'column' in which && which.column === column);
+  if (same) throw new UsageError(`${valueOption(reading)} and the degrees of freedom name the same column, ${columnLabel(shape, column)}; the statistic and its degrees of freedom need columns of their own`);
 
   const rowDegrees = (view: RecordView, which: RowDegrees): number => {
     if ('constant' in which) return which.constant;
@@ -78,7 +87,7 @@ export function valueConverter(reading: ValueReading, shape: TableShape, wanted:
     const value = readNumber(text, decimalComma);
     if (value === 'missing') return NaN;
     const why = whyNotDegrees(value);
-    if (why) throw new DataError(`${sourceName}:${view.line}: ${columnLabel(shape, which.column)}: ${quoteText(text)} is not a number of degrees of freedom: ${why}`);
+    if (why) throw new CellRefusal(`${columnLabel(shape, which.column)}: ${quoteText(text)} is not a number of degrees of freedom: ${why}`);
     return value as number;
   };
 
@@ -88,7 +97,7 @@ export function valueConverter(reading: ValueReading, shape: TableShape, wanted:
       const value = readNumber(text, decimalComma);
       if (value === 'missing') return 'missing';
       const why = whyNotValue(kind, value, text, decimalComma);
-      if (why) throw new DataError(`${sourceName}:${view.line}: ${columnLabel(shape, column)}: ${quoteText(text)} is not a ${VALUE_NAMES[kind]}: ${why}`);
+      if (why) throw new CellRefusal(`${columnLabel(shape, column)}: ${quoteText(text)} is not a ${VALUE_NAMES[kind]}: ${why}`);
       const needed = degrees.map((which) => rowDegrees(view, which));
       if (needed.some(Number.isNaN)) return 'missing';
       return pFromValue(reading, value as number, needed[0] ?? NaN, needed[1] ?? NaN);
