@@ -11,10 +11,16 @@
 // Cost: O(1). Source: Zhang, S. & Jin, J. (1996). Computation of Special
 // Functions. Wiley (cited from memory), as implemented by jstat 1.9.6.
 
-import jStat from 'jstat';
+import { createRequire } from 'node:module';
+import type { JStat } from 'jstat';
+
+// jstat is loaded on first use: only tables of statistics need it, and
+// loading it costs every other run of the command some 20 ms.
+let jStat: JStat | undefined;
 
 /** log Gamma(x), x > 0. */
 export function logGamma(x: number): number {
+  jStat ??= createRequire(import.meta.url)('jstat') as JStat;
   return jStat.loggam(x);
 }
 

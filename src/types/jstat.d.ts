@@ -1,9 +1,9 @@
 // The part of jstat (which ships no types) that famwise and its tests use.
 declare module 'jstat' {
-  interface Distribution {
+  export interface Distribution {
     cdf(x: number, ...parameters: number[]): number;
   }
-  interface JStat {
+  export interface JStat {
     /** log Gamma(x) for x > 0 (Zhang & Jin's algorithm; accurate to about 1e-15 relative). */
     loggam(x: number): number;
     normal: Distribution;
