@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { Command, CommanderError } from 'commander';
 import { FamwiseError, errorText } from '../errors.js';
-import { EXIT, EXIT_HELP } from '../exit-codes.js';
+import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';
 import { removeUnfinishedFiles } from '../io/atomic-file.js';
 import { adjustCommand } from './adjust.js';
 import { auditCommand } from './audit.js';
@@ -21,12 +21,12 @@ function program(): Command {
     .description('Multiple-testing adjustment of p-value tables: FWER and FDR procedures within families.')
     .version(version, '--version', 'print the version')
     .helpOption('-h, --help', 'show help')
-    .addHelpText('after', `\nExit status:\n${EXIT_HELP}\n\n${CAUTION}\n`)
+    .addHelpText('after', `\nExit status:\n${AUDIT_EXIT_HELP}\n\n${CAUTION}\n`)
     .showHelpAfterError('(see famwise --help; to adjust a table: famwise adjust FILE)');
-  root.addCommand(adjustCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise adjust --help)'));
-  root.addCommand(auditCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise audit --help)'));
-  root.addCommand(methodsCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise methods --help)'));
-  root.addCommand(inspectCommand().helpOption('-h, --help', 'show help').showHelpAfterError('(see famwise inspect --help)'));
+  // In the order of the work: look at the p-values, adjust them, check someone else's adjustment.
+  for (const command of [inspectCommand(), adjustCommand(), auditCommand(), methodsCommand()]) {
+    root.addCommand(command.helpOption('-h, --help', 'show help').showHelpAfterError(`(see famwise ${command.name()} --help)`));
+  }
   // Commander's own usage errors (unknown option, missing value) read like ours and exit with the usage status.
   for (const command of [root, ...root.commands]) {
     command.exitOverride().configureOutput({
