@@ -62,7 +62,7 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
   const families = familyColumnNames.length === 0 ? [null] : table.familyValues.map((values) => familyRecord(familyColumnNames, values));
   const titles = familyTitles(table, familyColumnNames);
   const { sorted, missing } = sortedByFamily(table.p, table.families);
-  const inspections: FamilyInspection[] = sorted.map((values, f) => inspectFamily(values, missing[f] as number, options.bins));
+  const inspections: FamilyInspection[] = sorted.map((values, f) => inspectFamily(values, missing[f] as number, options.bins, table.pComputed));
 
   if (options.plot !== undefined) {
     const plot = openOutput(options.plot);
