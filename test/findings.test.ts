@@ -45,7 +45,7 @@ function wilcoxonNull(seed: number, size: number, n1: number, n2: number): numbe
   const total = n1 + n2;
   const maxSum = (total * (total + 1)) / 2;
   // ways[k][s]: subsets of k ranks among those seen so far with rank sum s.
-  let ways = Array.from({ length: n1 + 1 }, (_, k) => Array.from({ length: maxSum + 1 }, (_, s) => (k === 0 && s === 0 ? 1 : 0)));
+  let ways = Array.from({ length: n1 + 1 }, (_, k) => Array.from({ length: maxSum + 1 }, (_, s): number => (k === 0 && s === 0 ? 1 : 0)));
   for (let rank = 1; rank <= total; rank++) {
     ways = ways.map((row, k) => row.map((count, s) => count + (k > 0 && s >= rank ? (ways[k - 1]?.[s - rank] as number) : 0)));
   }
