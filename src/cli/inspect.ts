@@ -29,7 +29,7 @@ import { readTable } from '../io/read-table.js';
 import { histogramSvg } from '../plots/histogram-svg.js';
 import { familyRecord } from '../summary.js';
 import { inputOptionsSchema, openInput, tableCommand, tableReadOptions } from './options.js';
-import { checkPlotTarget, familyTitles } from './plot-output.js';
+import { checkPlotTarget, familyTitles, omittedNote } from './plot-output.js';
 
 const inspectOptionsSchema = inputOptionsSchema.extend({
   bins: z
@@ -67,9 +67,12 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
   if (options.plot !== undefined) {
     const plot = openOutput(options.plot);
     try {
-      plot.stream.write(histogramSvg(inspections.map((inspection, f) => ({ title: titles[f] as string, histogram: inspection.histogram, pi0: inspection.pi0 }))));
+      const figure = histogramSvg(inspections.map((inspection, f) => ({ title: titles[f] as string, histogram: inspection.histogram, pi0: inspection.pi0 })));
+      plot.stream.write(figure.svg);
       await plot.finish();
       plot.install();
+      const omitted = omittedNote(figure);
+      if (omitted !== null && !options.quiet) process.stderr.write(`famwise: note: ${omitted}\n`);
     } catch (error) {
       plot.abort();
       throw error;

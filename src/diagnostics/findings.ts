@@ -51,10 +51,10 @@ export interface Diagnosis {
   readonly sorted: Float64Array;
   readonly counts: Counts;
   readonly inflation: Inflation | null;
-  /** Storey's pi0 (capped at 1); null without p-values. */
-  readonly pi0: number | null;
-  /** Whether famwise computed the p-values itself (from statistics or -log10 p). */
-  readonly pComputed: boolean;
+  /** Storey's pi0 (capped at 1); null or absent when unknown. */
+  readonly pi0?: number | null;
+  /** Whether famwise computed the p-values itself (from statistics or -log10 p); absent means read as written. */
+  readonly pComputed?: boolean;
 }
 
 interface Rule {
@@ -117,7 +117,7 @@ const belowHalfZ = (sorted: Float64Array, tested: number): number => binomialZ(c
 
 /** Whether the p-values look like real effects rather than inflation: pi0 clearly below 1, and more below 0.05 than inflation by lambda alone would give. */
 function realEffectsLikely({ counts, inflation, pi0 }: Diagnosis): boolean {
-  if (inflation === null || pi0 === null || pi0 >= 0.95) return false;
+  if (inflation === null || pi0 === null || pi0 === undefined || pi0 >= 0.95) return false;
   const inflatedShare = Math.min(1 - 1e-9, 2 * normalUpperTail(1.959963984540054 / Math.sqrt(inflation.lambda)));
   return binomialZ(counts.below05, counts.tested, inflatedShare) > 3;
 }
