@@ -1,6 +1,7 @@
-// Every finding has a table that triggers it and one that does not; uniform
-// null p-values of any size trigger none (common practice, no source: null
-// p-values are uniform, so a healthy table should raise nothing).
+// Every finding has a table that triggers it and one that does not; typical
+// uniform null p-values of any size trigger none (common practice, no source:
+// null p-values are uniform, so a healthy table should raise nothing; by
+// chance about 2 to 3 null families in 1,000 do, as the README states).
 import { describe, expect, it } from 'vitest';
 import { RULES } from '../src/diagnostics/findings.js';
 import { inspectFamily } from '../src/diagnostics/inspect-family.js';

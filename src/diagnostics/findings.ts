@@ -10,7 +10,7 @@
 // large deviation in counts (a binomial z-score beyond 4) and a large ratio,
 // so that huge tables do not raise findings for deviations too small to
 // matter. The inflation and deflation rules rest on a z-score beyond 3, so
-// about one null family in a thousand raises one of them by chance (measured
+// about two null families in a thousand raise one of them by chance (measured
 // on seeded simulations, see README).
 //
 // Discrete tests (exact, rank and count tests) give p-values that are not
