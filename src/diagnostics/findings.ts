@@ -175,7 +175,7 @@ export const RULES: readonly Rule[] = [
       const start = `The inflation factor is ${shortNumber(inflation.lambda)}, above 1, which real effects or inflation of the test statistics make`;
       return realEffectsLikely(diagnosis)
         ? `${start}: here pi0 is ${shortNumber(pi0 as number)} and more p-values lie near 0 than inflation alone would put there, so real effects are the likelier reading, and genomic control (dividing the statistics by lambda) would remove real signal; rule out unmodelled structure (population stratification, relatedness, batch effects) by design or by modelling it, not by dividing.`
-        : `${start}: with pi0 near 1 and no more p-values near 0 than inflation alone gives, the likelier reading is statistics larger throughout than the null allows, as unmodelled structure (population stratification, relatedness, batch effects) or an underestimated variance makes them; model it (or apply genomic control) before adjusting.`;
+        : `${start}: here pi0 is ${pi0 === null || pi0 === undefined ? 'unknown' : shortNumber(pi0)} and no more p-values lie near 0 than inflation alone would put there, so the likelier reading is statistics larger throughout than the null allows, as unmodelled structure (population stratification, relatedness, batch effects) or an underestimated variance makes them; model it (or apply genomic control) before adjusting.`;
     },
   },
   {
