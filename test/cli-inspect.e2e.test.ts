@@ -220,3 +220,109 @@ describe('adjust --plot: discoveries against the level, as SVG', () => {
     expect(readFileSync(input, 'utf8')).toBe('p\n0.1\n');
   });
 });
+
+describe('edge cases of lambda and exact zeros, in text and JSON alike', () => {
+  it('lambda is unbounded when half the p-values are 0: the text says so, the JSON has null with unbounded: true', () => {
+    const input = 'p\n0\n0\n0\n0.5\n0.7\n';
+    expect(famwise(['inspect'], input).stdout).toMatch(/\n  inflation factor lambda: unbounded \(half or more of the p-values are exactly 0\)\n/);
+    const report = JSON.parse(famwise(['inspect', '--json'], input).stdout) as { families: { inflation: Record<string, unknown> }[] };
+    expect(report.families[0]?.inflation).toMatchObject({ lambda: null, unbounded: true, medianStatistic: null });
+    const finite = JSON.parse(famwise(['inspect', '--json'], 'p\n0.1\n0.5\n').stdout) as { families: { inflation: Record<string, unknown> }[] };
+    expect(finite.families[0]?.inflation).toMatchObject({ unbounded: false });
+    expect(finite.families[0]?.inflation.lambda).toBeGreaterThan(0);
+  });
+
+  it('exact zeros computed by famwise from statistics (z = 40) are blamed on double precision, not on the upstream tool', () => {
+    const fromStatistics = famwise(['inspect', '--statistic', 'z', '--json'], 'z\n40\n1\n0.5\n');
+    const finding = (JSON.parse(fromStatistics.stdout) as InspectJson).families[0]?.findings.find((entry) => entry.id === 'exact-zeros');
+    expect(finding?.text).toMatch(/famwise computed them from statistics too large for double precision/);
+    expect(finding?.text).not.toMatch(/--statistic/);
+    const read = (JSON.parse(famwise(['inspect', '--json'], 'p\n0\n0.3\n0.5\n').stdout) as InspectJson).families[0]?.findings.find((entry) => entry.id === 'exact-zeros');
+    expect(read?.text).toMatch(/--statistic/);
+  });
+});
+
+describe('readable plots', () => {
+  const methods = ['bonferroni', 'holm', 'sidak', 'holm-sidak', 'hochberg', 'hommel', 'bh', 'by', 'storey', 'bky'];
+
+  /** Families of 300 p-values, a fifth of them small, named by `name`. */
+  function table(families: number, name: (f: number) => string, size = 300): string {
+    const random = seededRandom(9);
+    const lines = ['family,p'];
+    for (let f = 0; f < families; f++) for (let i = 0; i < size; i++) lines.push(`${name(f)},${i < size / 5 ? random() ** 6 : random()}`);
+    return `${lines.join('\n')}\n`;
+  }
+
+  it('cuts a long family name to fit its panel, with an ellipsis, and keeps the full name in a <title>', () => {
+    const long = `g${'x'.repeat(299)}`;
+    const plot = join(work, 'long.svg');
+    expect(famwise(['inspect', '--family', 'family', '--plot', plot], table(2, (f) => (f === 0 ? long : 'short'))).status).toBe(0);
+    const { panels } = parseSvg(plot);
+    const heading = all(panels[0], 'text').find((t) => t.class === 'panel-title');
+    const shown = String(heading?.['#text']);
+    expect(Array.from(shown).length).toBeLessThanOrEqual(42);
+    expect(shown).toMatch(/^family=gxxx+… \(pi0 = [\d.]+\)$/);
+    expect(heading?.title).toMatch(new RegExp(`^family=${long} \\(pi0 = [\\d.]+\\)$`));
+    expect(all(panels[1], 'text').find((t) => t.class === 'panel-title')?.['#text']).toMatch(/^family=short \(pi0 = [\d.]+\)$/);
+  });
+
+  it('gives each of the ten methods its own colour and its own dash pattern, in the lines and in the legend', () => {
+    const plot = join(work, 'ten.svg');
+    const run = famwise(['adjust', '--family', 'family', '--methods', methods.join(','), '--plot', plot, '-o', join(work, 'ten.csv'), '-q'], table(1, () => 'a'));
+    expect(run.status).toBe(0);
+    const { svg, panels } = parseSvg(plot);
+    const curves = all(panels[0], 'polyline');
+    expect(curves.map((curve) => curve['data-method'])).toEqual(methods);
+    expect(new Set(curves.map((curve) => curve.stroke)).size).toBe(10);
+    expect(new Set(curves.map((curve) => curve['stroke-dasharray'])).size).toBe(10);
+    const samples = all(svg, 'g').filter((g) => g.class === 'legend-entry').slice(0, 10).map((g) => all(g, 'line')[0]);
+    expect(samples.map((line) => `${line?.stroke} ${line?.['stroke-dasharray']}`)).toEqual(curves.map((curve) => `${curve.stroke} ${curve['stroke-dasharray']}`));
+  });
+
+  it('keeps the alpha label inside the panel at alpha = 0.25, and counts on whole ticks only', () => {
+    const plot = join(work, 'alpha.svg');
+    expect(famwise(['adjust', '--family', 'family', '--methods', 'holm', '--alpha', '0.25', '--plot', plot, '-o', join(work, 'alpha.csv'), '-q'], table(1, () => 'a', 10)).status).toBe(0);
+    const { panels } = parseSvg(plot);
+    const label = all(panels[0], 'text').find((t) => t.class === 'alpha-label');
+    const line = all(panels[0], 'line').find((l) => l.class === 'alpha');
+    expect(label?.['text-anchor']).toBe('end');
+    expect(Number(label?.x)).toBeLessThan(Number(line?.x1));
+    for (const tick of all(panels[0], 'text').filter((t) => t.class === 'y-tick')) expect(Number.isInteger(Number(tick['data-value']))).toBe(true);
+    // Few p-values in the histogram too: whole counts only.
+    const histogram = join(work, 'few.svg');
+    expect(famwise(['inspect', '--plot', histogram], 'p\n0.1\n0.6\n').status).toBe(0);
+    for (const tick of all(parseSvg(histogram).panels[0], 'text').filter((t) => t.class === 'y-tick')) expect(Number.isInteger(Number(tick['data-value']))).toBe(true);
+  });
+
+  it('draws the dashed uniform line over the solid pi0 line, so both show when pi0 = 1', () => {
+    const plot = join(work, 'pi0-one.svg');
+    const input = `p\n${Array.from({ length: 200 }, (_, i) => 0.5 + (i + 0.5) / 400).join('\n')}\n`;
+    expect(famwise(['inspect', '--plot', plot], input).status).toBe(0);
+    const lines = all(parseSvg(plot).panels[0], 'line').filter((line) => line.class === 'uniform-level' || line.class === 'pi0-level');
+    expect(lines.map((line) => line.class)).toEqual(['pi0-level', 'uniform-level']);
+    expect(lines[0]?.y1).toBe(lines[1]?.y1);
+    expect(Number(lines[0]?.['stroke-width'])).toBeGreaterThan(Number(lines[1]?.['stroke-width']));
+  });
+
+  it('draws at most 60 families, in table order, and says in the SVG and on stderr how many it left out', () => {
+    const input = table(75, (f) => `f${String(f).padStart(2, '0')}`, 20);
+    const plot = join(work, 'many.svg');
+    const run = famwise(['inspect', '--family', 'family', '--plot', plot], input);
+    expect(run.status).toBe(0);
+    expect(run.stderr).toBe('famwise: note: the plot shows the first 60 families, in table order; the other 15 are left out (filter the table to plot them)\n');
+    const { svg, panels } = parseSvg(plot);
+    expect(panels).toHaveLength(60);
+    expect(all(panels[59], 'text').find((t) => t.class === 'panel-title')?.['#text']).toMatch(/^family=f59 /);
+    const note = all(svg, 'text').find((t) => t.class === 'omitted-note');
+    expect(note?.['data-omitted']).toBe('15');
+    expect(note?.['#text']).toBe('Showing the first 60 of 75 families, in table order; 15 left out.');
+    expect(famwise(['inspect', '--family', 'family', '--plot', plot, '-q'], input).stderr).toBe('');
+    const adjusted = famwise(['adjust', '--family', 'family', '--plot', join(work, 'many-adjust.svg'), '-o', join(work, 'many.csv'), '-q'], input);
+    expect(adjusted.stderr).toMatch(/famwise: note: the plot shows the first 60 families, in table order; the other 15 are left out/);
+    expect(parseSvg(join(work, 'many-adjust.svg')).panels).toHaveLength(60);
+    // Fewer families: no note anywhere.
+    const few = join(work, 'few-families.svg');
+    expect(famwise(['inspect', '--family', 'family', '--plot', few], table(3, (f) => `f${f}`, 20)).stderr).toBe('');
+    expect(readFileSync(few, 'utf8')).not.toMatch(/omitted-note/);
+  });
+});

@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { sortedByFamily } from '../src/diagnostics/by-family.js';
 import { pValueCounts } from '../src/diagnostics/counts.js';
 import { discoveriesAt, discoveryCurve, thinCurve } from '../src/diagnostics/discoveries.js';
-import { pValueHistogram } from '../src/diagnostics/histogram.js';
+import { binOf, pValueHistogram } from '../src/diagnostics/histogram.js';
 import { CHI_SQUARE_ONE_MEDIAN, chiSquareOneOfP, genomicInflation } from '../src/diagnostics/inflation.js';
 import { inspectFamily } from '../src/diagnostics/inspect-family.js';
 import { kolmogorovUpperTail, upperHalfUniformity } from '../src/diagnostics/uniformity.js';
@@ -15,6 +15,10 @@ import { seededRandom } from './helpers/random.js';
 
 const fixture = JSON.parse(readFileSync(new URL('../fixtures/reference/diagnostics.json', import.meta.url), 'utf8')) as {
   cases: { name: string; p: number[]; lambda: number; ksN: number; ksStatistic: number; ksP: number }[];
+};
+
+const tinyP = JSON.parse(readFileSync(new URL('../fixtures/reference/chi-square-tiny-p.json', import.meta.url), 'utf8')) as {
+  rows: { p: number; statistic: number }[];
 };
 
 const kolmogorov = JSON.parse(readFileSync(new URL('../fixtures/reference/kolmogorov.json', import.meta.url), 'utf8')) as {
@@ -67,6 +71,18 @@ describe('the genomic inflation factor (Devlin & Roeder 1999)', () => {
     expect(chiSquareOneOfP(1e-300)).toBeGreaterThan(1370);
   });
 
+  it('turns p-values down to the smallest subnormal into statistics as R does (qchisq(p, 1, lower.tail = FALSE), fixtures/reference/make-chi-square-tiny-p.R), to 1e-14 relative', () => {
+    for (const row of tinyP.rows) expect(Math.abs(chiSquareOneOfP(row.p) / row.statistic - 1), `p = ${row.p}`).toBeLessThan(1e-14);
+    // A median p-value of 5e-324 gives lambda 1481.13 / 0.45494 = 3255.7, not Infinity.
+    expect(genomicInflation(ascending([5e-324, 5e-324, 5e-324]))?.lambda).toBeCloseTo(3255.7, 1);
+  });
+
+  it('is unbounded (Infinity) when half or more of the p-values are exactly 0', () => {
+    expect(genomicInflation(ascending([0, 0, 0.5]))?.lambda).toBe(Infinity);
+    expect(genomicInflation(ascending([0, 0, 0.5, 0.7]))?.lambda).toBe(Infinity);
+    expect(genomicInflation(ascending([0, 0.3, 0.5, 0.7]))?.lambda).toBeLessThan(Infinity);
+  });
+
   it('inverts the normal tail down to the smallest p-values', () => {
     for (const q of [0.5, 0.25, 0.025, 1e-10, 1e-100, 1e-300]) {
       const z = normalUpperQuantile(q);
@@ -106,6 +122,20 @@ describe('counts, histogram, families', () => {
     expect(histogram.counts[19]).toBe(2);
     expect(histogram.uniformLevel).toBe(0.3);
     expect(histogram.pi0Level).toBeCloseTo(0.15, 15);
+  });
+
+  it('puts values on a bin edge k/B in bin k even when p * B rounds below k (0.29 * 100 = 28.999999999999996)', () => {
+    expect(binOf(0.29, 100)).toBe(29);
+    for (const bins of [50, 100, 200]) {
+      for (let k = 0; k < bins; k++) {
+        // The edge as a table prints it (four decimals), and as the double k / bins.
+        for (const edge of [Number((k / bins).toFixed(4)), k / bins]) expect(binOf(edge, bins), `${edge} with ${bins} bins`).toBe(k);
+        // The largest double below the edge belongs to the bin before.
+        if (k > 0) expect(binOf((k / bins) * (1 - Number.EPSILON), bins)).toBe(k - 1);
+      }
+      expect(binOf(1, bins)).toBe(bins - 1);
+      expect(binOf(0, bins)).toBe(0);
+    }
   });
 
   it('marks pi0 at Storey\'s estimate with lambda = 0.5, capped at 1', () => {

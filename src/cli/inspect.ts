@@ -29,7 +29,7 @@ import { readTable } from '../io/read-table.js';
 import { histogramSvg } from '../plots/histogram-svg.js';
 import { familyRecord } from '../summary.js';
 import { inputOptionsSchema, openInput, tableCommand, tableReadOptions } from './options.js';
-import { checkPlotTarget, familyTitles } from './plot-output.js';
+import { checkPlotTarget, familyTitles, omittedNote } from './plot-output.js';
 
 const inspectOptionsSchema = inputOptionsSchema.extend({
   bins: z
@@ -62,14 +62,17 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
   const families = familyColumnNames.length === 0 ? [null] : table.familyValues.map((values) => familyRecord(familyColumnNames, values));
   const titles = familyTitles(table, familyColumnNames);
   const { sorted, missing } = sortedByFamily(table.p, table.families);
-  const inspections: FamilyInspection[] = sorted.map((values, f) => inspectFamily(values, missing[f] as number, options.bins));
+  const inspections: FamilyInspection[] = sorted.map((values, f) => inspectFamily(values, missing[f] as number, options.bins, table.pComputed));
 
   if (options.plot !== undefined) {
     const plot = openOutput(options.plot);
     try {
-      plot.stream.write(histogramSvg(inspections.map((inspection, f) => ({ title: titles[f] as string, histogram: inspection.histogram, pi0: inspection.pi0 }))));
+      const figure = histogramSvg(inspections.map((inspection, f) => ({ title: titles[f] as string, histogram: inspection.histogram, pi0: inspection.pi0 })));
+      plot.stream.write(figure.svg);
       await plot.finish();
       plot.install();
+      const omitted = omittedNote(figure);
+      if (omitted !== null && !options.quiet) process.stderr.write(`famwise: note: ${omitted}\n`);
     } catch (error) {
       plot.abort();
       throw error;

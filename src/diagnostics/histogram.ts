@@ -20,9 +20,16 @@ export interface Histogram {
   readonly pi0Level: number;
 }
 
-/** Which bin a p-value falls in. */
+/**
+ * Which bin a p-value falls in. p * bins can round below a whole number
+ * (0.29 * 100 = 28.999999999999996), so the floor is stepped up when p has
+ * reached the next edge (k + 1) / bins, and down when p lies below its own
+ * edge k / bins (a product that rounded up); 1 stays in the last bin.
+ */
 export function binOf(p: number, bins: number): number {
-  return Math.min(bins - 1, Math.floor(p * bins));
+  const k = Math.floor(p * bins);
+  const bin = (k + 1) / bins <= p ? k + 1 : k / bins > p ? k - 1 : k;
+  return Math.min(bins - 1, bin);
 }
 
 /** Counts per bin of p-values (none missing), with the uniform and pi0 levels. */

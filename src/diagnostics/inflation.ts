@@ -16,15 +16,48 @@
 // statistic of the median p-value (the mean of the two middle statistics
 // when the count is even): only those are computed.
 //
+// Below p = 1e-300, p / 2 would lose digits among the subnormal doubles (and
+// the smallest one, 5e-324, halves to 0), so the statistic is solved in log
+// space from the asymptotic series of the normal upper tail,
+// P(Z > z) = phi(z) / z * (1 - 1/z^2 + 3/z^4 - 15/z^6 + 105/z^8 - ...), whose
+// first omitted term is below 1e-13 of the sum there (z > 37).
+// When half or more of the p-values are exactly 0 the median statistic is
+// infinite and lambda is unbounded (Infinity).
+//
 // Cost: O(1) on sorted p-values.
-// Source: Devlin, B. & Roeder, K. (1999). Genomic control for association
-// studies. Biometrics 55:997-1004.
+// Sources: Devlin, B. & Roeder, K. (1999). Genomic control for association
+// studies. Biometrics 55:997-1004. The series: Abramowitz, M. & Stegun, I. A.
+// (1964). Handbook of Mathematical Functions, 26.2.12 (from memory); checked
+// against R's qchisq(p, 1, lower.tail = FALSE) down to 5e-324.
 
 import { normalUpperQuantile } from '../distributions/normal-quantile.js';
 
-/** The chi-square(1) statistic whose upper tail is p. */
+/** Below this p-value the statistic comes from the asymptotic series. */
+const TINY_P = 1e-300;
+const LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
+
+/** log P(Z > z) by the asymptotic series, for z > 37. */
+function logNormalUpperTailFar(z: number): number {
+  const w = 1 / (z * z);
+  return -0.5 * z * z - Math.log(z) - LOG_SQRT_2PI + Math.log(1 - w * (1 - 3 * w * (1 - 5 * w * (1 - 7 * w))));
+}
+
+/** The z with P(Z > z) = p / 2 for 0 < p < 1e-300, by Newton's method on the logarithms. */
+function farQuantileOfHalf(p: number): number {
+  const target = Math.log(p) - Math.LN2;
+  let z = Math.sqrt(-2 * target);
+  for (let step = 0; step < 50; step++) {
+    // d/dz log P(Z > z) is -z - 1/z to well within the precision needed for the step.
+    const next = z + (logNormalUpperTailFar(z) - target) / (z + 1 / z);
+    if (Math.abs(next - z) <= 1e-15 * z) return next;
+    z = next;
+  }
+  return z;
+}
+
+/** The chi-square(1) statistic whose upper tail is p (Infinity for p = 0). */
 export function chiSquareOneOfP(p: number): number {
-  const z = normalUpperQuantile(p / 2);
+  const z = p > 0 && p < TINY_P ? farQuantileOfHalf(p) : normalUpperQuantile(p / 2);
   return z * z;
 }
 
@@ -34,7 +67,7 @@ export const CHI_SQUARE_ONE_MEDIAN = chiSquareOneOfP(0.5);
 export interface Inflation {
   /** Median chi-square(1) statistic of the p-values. */
   readonly medianStatistic: number;
-  /** medianStatistic / median of chi-square(1). */
+  /** medianStatistic / median of chi-square(1); Infinity when half or more of the p-values are 0. */
   readonly lambda: number;
 }
 

@@ -29,8 +29,12 @@ export interface FamilyInspection {
   readonly findings: readonly Finding[];
 }
 
-/** Inspects one family: ascending p-values (none missing) and the count of missing ones. */
-export function inspectFamily(sorted: Float64Array, missing: number, bins: number): FamilyInspection {
+/**
+ * Inspects one family: ascending p-values (none missing), the count of missing
+ * ones, and whether famwise computed the p-values from statistics (which
+ * changes the advice on exact zeros).
+ */
+export function inspectFamily(sorted: Float64Array, missing: number, bins: number, pComputed = false): FamilyInspection {
   const counts = pValueCounts(sorted, missing);
   const pi0 = sorted.length === 0 ? null : Math.min(1, pi0AtLambda(sorted, sorted.length, PI0_LAMBDA));
   const inflation = genomicInflation(sorted);
@@ -41,6 +45,6 @@ export function inspectFamily(sorted: Float64Array, missing: number, bins: numbe
     histogram: pValueHistogram(sorted, bins, pi0 ?? 1),
     inflation,
     uniformity: upperHalfUniformity(sorted),
-    findings: findingsOf({ sorted, counts, inflation }),
+    findings: findingsOf({ sorted, counts, inflation, pi0, pComputed }),
   };
 }

@@ -2,8 +2,14 @@
 // full precision, names that say what they are, findings with their ids.
 
 import type { FamilyInspection } from './inspect-family.js';
-import { CHI_SQUARE_ONE_MEDIAN } from './inflation.js';
+import { CHI_SQUARE_ONE_MEDIAN, type Inflation } from './inflation.js';
 import { PI0_LAMBDA } from './inspect-family.js';
+
+/** JSON has no Infinity: an unbounded factor is null with `unbounded: true`. */
+function inflationRecord({ lambda, medianStatistic }: Inflation): Record<string, unknown> {
+  const unbounded = lambda === Infinity;
+  return { lambda: unbounded ? null : lambda, unbounded, medianStatistic: unbounded ? null : medianStatistic, nullMedianStatistic: CHI_SQUARE_ONE_MEDIAN };
+}
 
 export function inspectionRecord(family: Record<string, string> | null, inspection: FamilyInspection): Record<string, unknown> {
   const { counts, shareBelow05, pi0, histogram, inflation, uniformity, findings } = inspection;
@@ -19,7 +25,7 @@ export function inspectionRecord(family: Record<string, string> | null, inspecti
       uniformLevel: histogram.uniformLevel,
       pi0Level: histogram.pi0Level,
     },
-    inflation: inflation === null ? null : { lambda: inflation.lambda, medianStatistic: inflation.medianStatistic, nullMedianStatistic: CHI_SQUARE_ONE_MEDIAN },
+    inflation: inflation === null ? null : inflationRecord(inflation),
     uniformity: uniformity === null ? null : { test: 'kolmogorov-smirnov', of: 'p-values above 0.5, rescaled to [0, 1] as 2p - 1', n: uniformity.n, statistic: uniformity.statistic, p: uniformity.p },
     findings,
   };

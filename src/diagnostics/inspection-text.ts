@@ -7,12 +7,8 @@
 import { terminalHistogram } from '../plots/terminal-histogram.js';
 import type { FamilyInspection } from './inspect-family.js';
 import { CHI_SQUARE_ONE_MEDIAN } from './inflation.js';
+import { shortNumber } from './short-number.js';
 
-/** Three significant digits for reading; the JSON keeps every digit. */
-export function shortNumber(value: number): string {
-  if (value === 0) return '0';
-  return Math.abs(value) < 1e-4 ? value.toExponential(2) : String(Number(value.toPrecision(3)));
-}
 
 /** Words wrapped to `width` columns: the first line starts with `first`, later ones with `indent`. */
 export function wrap(text: string, width: number, first: string, indent: string): string[] {
@@ -35,9 +31,10 @@ export function inspectionText(label: string, inspection: FamilyInspection, widt
     `  p-values: ${counts.tested} (missing ${counts.missing}); exactly 0: ${counts.zeros}; exactly 1: ${counts.ones}; distinct: ${counts.distinct}`,
   );
   if (shareBelow05 === null) return `${[...lines, '  nothing to inspect'].join('\n')}\n`;
-  lines.push(`  below 0.05: ${Number((100 * shareBelow05).toPrecision(3))}% (${counts.below05}); null p-values alone would give 5%`);
+  lines.push(`  below 0.05: ${shortNumber(100 * shareBelow05)}% (${counts.below05}); null p-values alone would give 5%`);
   if (pi0 !== null) lines.push(`  share of true nulls, pi0 (Storey, from the p-values above 0.5): ${shortNumber(pi0)}`);
-  if (inflation) {
+  if (inflation?.lambda === Infinity) lines.push('  inflation factor lambda: unbounded (half or more of the p-values are exactly 0)');
+  else if (inflation) {
     lines.push(`  inflation factor lambda: ${shortNumber(inflation.lambda)} (median chi-square(1) statistic ${shortNumber(inflation.medianStatistic)}; null tests give ${shortNumber(CHI_SQUARE_ONE_MEDIAN)})`);
   }
   lines.push(

@@ -3,11 +3,14 @@
 // reach if all p-values were null, and a solid line at the level of the nulls
 // alone (pi0 times that). Each bar and line carries its number in a data-
 // attribute, so that what is drawn can be checked against what was computed.
+// The solid pi0 line is drawn wider and first, the dashed line over it, so
+// that both stay visible where they coincide (pi0 = 1).
 //
 // Cost: O(bins) per family.
 
 import type { Histogram } from '../diagnostics/histogram.js';
-import { type LegendEntry, axes, element, figure, niceTicks, panelFrame } from './svg.js';
+import { shortNumber } from '../diagnostics/short-number.js';
+import { type Figure, type LegendEntry, axes, element, figure, niceTicks, panelFrame, panelTitle } from './svg.js';
 
 export interface HistogramPanel {
   readonly title: string;
@@ -28,7 +31,7 @@ const LEGEND: readonly LegendEntry[] = [
 function panel({ title, histogram, pi0 }: HistogramPanel): (originX: number, originY: number) => string {
   return (originX, originY) => {
     const bins = histogram.counts.length;
-    const yTicks = niceTicks(Math.max(histogram.uniformLevel, ...histogram.counts, 1));
+    const yTicks = niceTicks(Math.max(histogram.uniformLevel, ...histogram.counts, 1), 5, true);
     const frame = panelFrame(originX, originY, 1, yTicks[yTicks.length - 1] as number);
     const bars = Array.from(histogram.counts, (count, k) => {
       const x = frame.x(k / bins);
@@ -46,14 +49,14 @@ function panel({ title, histogram, pi0 }: HistogramPanel): (originX: number, ori
     });
     const level = (value: number, attributes: Record<string, string | number>): string =>
       element('line', { x1: frame.x(0), y1: frame.y(value), x2: frame.x(1), y2: frame.y(value), 'data-level': String(value), ...attributes });
-    const lines = [level(histogram.uniformLevel, { stroke: UNIFORM, 'stroke-width': 1.5, 'stroke-dasharray': '5 3', class: 'uniform-level' })];
-    if (pi0 !== null) lines.push(level(histogram.pi0Level, { stroke: PI0, 'stroke-width': 2, class: 'pi0-level', 'data-pi0': String(pi0) }));
-    const shownTitle = pi0 === null ? title : `${title} (pi0 = ${Number(pi0.toPrecision(3))})`;
+    const uniform = level(histogram.uniformLevel, { stroke: UNIFORM, 'stroke-width': 1.5, 'stroke-dasharray': '5 3', class: 'uniform-level' });
+    const lines = pi0 === null ? [uniform] : [level(histogram.pi0Level, { stroke: PI0, 'stroke-width': 3, class: 'pi0-level', 'data-pi0': String(pi0) }), uniform];
+    const shownTitle = pi0 === null ? panelTitle(title) : panelTitle(title, ` (pi0 = ${shortNumber(pi0)})`);
     return axes(frame, shownTitle, [0, 0.25, 0.5, 0.75, 1], yTicks, 'p-value', 'count') + element('g', { class: 'bars' }, bars) + lines.join('');
   };
 }
 
-/** The histograms of every family, one panel each. */
-export function histogramSvg(panels: readonly HistogramPanel[]): string {
+/** The histograms of the families, one panel each (the first MAX_PANELS), and how many were left out. */
+export function histogramSvg(panels: readonly HistogramPanel[]): Figure {
   return figure('p-value histogram', LEGEND, panels.map(panel));
 }

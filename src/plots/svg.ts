@@ -31,12 +31,17 @@ export function text(x: number, y: number, content: string, attributes: Attribut
   return element('text', { x, y, ...attributes }, [escapeXml(content)]);
 }
 
-/** Round tick values from 0 to at least max: steps of 1, 2 or 5 times a power of ten, about `count` of them. */
-export function niceTicks(max: number, count = 5): number[] {
+/**
+ * Round tick values from 0 to at least max: steps of 1, 2 or 5 times a power
+ * of ten, about `count` of them; whole steps only for counts (`whole`), since
+ * "1.5 discoveries" is not a count.
+ */
+export function niceTicks(max: number, count = 5, whole = false): number[] {
   if (!(max > 0)) return [0, 1];
   const rough = max / count;
   const power = 10 ** Math.floor(Math.log10(rough));
-  const step = ([1, 2, 5, 10].find((factor) => factor * power >= rough) ?? 10) * power;
+  const nice = ([1, 2, 5, 10].find((factor) => factor * power >= rough) ?? 10) * power;
+  const step = whole ? Math.max(1, Math.round(nice)) : nice;
   const ticks: number[] = [];
   for (let k = 0; ; k++) {
     const tick = Number((k * step).toPrecision(12));
@@ -74,11 +79,32 @@ export function panelFrame(originX: number, originY: number, xMax: number, yMax:
   return { left, top, width, height, x: (value) => left + (value / xMax) * width, y: (value) => top + height - (value / yMax) * height };
 }
 
+/** The most characters of a panel title that fit above its panel without running into the next one. */
+export const TITLE_CHARACTERS = 42;
+
+/** `title` cut to `max` characters (whole code points), ending in an ellipsis when cut. */
+export function shortTitle(title: string, max: number): string {
+  const characters = Array.from(title);
+  return characters.length <= max ? title : `${characters.slice(0, Math.max(0, max - 1)).join('')}…`;
+}
+
+/** A panel's title: what is shown (cut to fit) and the full text, kept in a <title> element that viewers show on hover. */
+export interface PanelTitle {
+  readonly shown: string;
+  readonly full: string;
+}
+
+/** The panel title for a family's name, with a suffix (such as its pi0) that is never cut. */
+export function panelTitle(name: string, suffix = ''): PanelTitle {
+  return { shown: shortTitle(name, TITLE_CHARACTERS - Array.from(suffix).length) + suffix, full: name + suffix };
+}
+
 /** Axes with ticks, tick labels, axis titles and the panel's title. */
-export function axes(frame: PanelFrame, title: string, xTicks: readonly number[], yTicks: readonly number[], xTitle: string, yTitle: string): string {
+export function axes(frame: PanelFrame, title: PanelTitle, xTicks: readonly number[], yTicks: readonly number[], xTitle: string, yTitle: string): string {
   const bottom = frame.top + frame.height;
+  const titleAttributes = { x: frame.left + frame.width / 2, y: frame.top - 10, 'text-anchor': 'middle', 'font-weight': 'bold', class: 'panel-title' };
   const parts = [
-    text(frame.left + frame.width / 2, frame.top - 10, title, { 'text-anchor': 'middle', 'font-weight': 'bold', class: 'panel-title' }),
+    element('text', titleAttributes, [element('title', {}, [escapeXml(title.full)]), escapeXml(title.shown)]),
     element('line', { x1: frame.left, y1: bottom, x2: frame.left + frame.width, y2: bottom, stroke: '#333' }),
     element('line', { x1: frame.left, y1: frame.top, x2: frame.left, y2: bottom, stroke: '#333' }),
   ];
@@ -108,14 +134,27 @@ export interface LegendEntry {
 const LEGEND_HEIGHT = 26;
 const LEGEND_WIDTH = 360;
 const COLUMNS = 3;
+const NOTE_HEIGHT = 20;
 
-/** The whole figure: a title, a legend row, and one panel per family in a grid of up to three columns. */
-export function figure(title: string, legend: readonly LegendEntry[], panels: readonly ((originX: number, originY: number) => string)[]): string {
+/** The most panels a figure draws: beyond a few dozen, small multiples are no longer read, and the file grows without bound. */
+export const MAX_PANELS = 60;
+
+/** A figure, and how many panels were left out of it (those after the first MAX_PANELS, in table order). */
+export interface Figure {
+  readonly svg: string;
+  readonly omitted: number;
+}
+
+/** The whole figure: a title, a legend row, and one panel per family (at most MAX_PANELS) in a grid of up to three columns. */
+export function figure(title: string, legend: readonly LegendEntry[], allPanels: readonly ((originX: number, originY: number) => string)[]): Figure {
+  const panels = allPanels.slice(0, MAX_PANELS);
+  const omitted = allPanels.length - panels.length;
   const columns = Math.min(COLUMNS, Math.max(1, panels.length));
   const rows = Math.max(1, Math.ceil(panels.length / columns));
   const perRow = Math.max(1, Math.floor((columns * PANEL_WIDTH - 16) / LEGEND_WIDTH));
   const legendRows = Math.ceil(legend.length / perRow);
-  const headerHeight = 34 + legendRows * LEGEND_HEIGHT;
+  const noteHeight = omitted > 0 ? NOTE_HEIGHT : 0;
+  const headerHeight = 34 + legendRows * LEGEND_HEIGHT + noteHeight;
   const width = columns * PANEL_WIDTH;
   const height = headerHeight + rows * PANEL_HEIGHT;
   const parts = [
@@ -127,12 +166,17 @@ export function figure(title: string, legend: readonly LegendEntry[], panels: re
     const y = 34 + Math.floor(k / perRow) * LEGEND_HEIGHT + 12;
     parts.push(element('g', { class: 'legend-entry' }, [entry.sample(x, y), text(x + 34, y + 4, entry.label)]));
   });
+  if (omitted > 0) {
+    const note = `Showing the first ${panels.length} of ${allPanels.length} families, in table order; ${omitted} left out.`;
+    parts.push(text(12, headerHeight - 8, note, { fill: '#a33', class: 'omitted-note', 'data-omitted': String(omitted) }));
+  }
   panels.forEach((panel, k) => {
     parts.push(element('g', { class: 'panel', 'data-index': String(k) }, [panel((k % columns) * PANEL_WIDTH, headerHeight + Math.floor(k / columns) * PANEL_HEIGHT)]));
   });
-  return `<?xml version="1.0" encoding="UTF-8"?>\n${element(
+  const svg = `<?xml version="1.0" encoding="UTF-8"?>\n${element(
     'svg',
     { xmlns: 'http://www.w3.org/2000/svg', width, height, viewBox: `0 0 ${width} ${height}`, 'font-family': 'Helvetica, Arial, sans-serif', 'font-size': 11 },
     parts,
   )}\n`;
+  return { svg, omitted };
 }

@@ -7,15 +7,16 @@
 // Cost: O(bins * width).
 
 import type { Histogram } from '../diagnostics/histogram.js';
+import { shortNumber } from '../diagnostics/short-number.js';
 
 const EIGHTHS = ['', '▏', '▎', '▍', '▌', '▋', '▊', '▉'];
 const FULL = '█';
 export const UNIFORM_MARK = '|';
 export const PI0_MARK = ':';
 
-/** Digits that show every bin edge k / bins exactly (2 for 20 bins), at most 3. */
+/** Digits for the bin edges: 2 when they are all exact hundredths (20 bins), else 3. */
 export function edgeDigits(bins: number): number {
-  return 100 % bins === 0 ? 2 : 1000 % bins === 0 ? 3 : 3;
+  return 100 % bins === 0 ? 2 : 3;
 }
 
 /** The label of bin k, such as "0.05-0.10". */
@@ -47,8 +48,7 @@ export function terminalHistogram(histogram: Histogram, pi0: number | null, widt
   const marks: [number, string][] = showPi0 ? [[histogram.uniformLevel, UNIFORM_MARK], [histogram.pi0Level, PI0_MARK]] : [[histogram.uniformLevel, UNIFORM_MARK]];
   const countWidth = String(Math.max(...histogram.counts)).length;
   const lines = Array.from(histogram.counts, (count, k) => `${binLabel(k, bins)}  ${bar(count, full, width, marks)}  ${String(count).padStart(countWidth)}`);
-  const level = (value: number): string => String(Number(value.toPrecision(3)));
-  lines.push(`${UNIFORM_MARK} ${level(histogram.uniformLevel)} per bin if every p-value were null`);
-  if (showPi0) lines.push(`${PI0_MARK} ${level(histogram.pi0Level)} per bin from the nulls alone (pi0 = ${level(pi0)})`);
+  lines.push(`${UNIFORM_MARK} ${shortNumber(histogram.uniformLevel)} per bin if every p-value were null`);
+  if (showPi0) lines.push(`${PI0_MARK} ${shortNumber(histogram.pi0Level)} per bin from the nulls alone (pi0 = ${shortNumber(pi0)})`);
   return lines;
 }
