@@ -63,3 +63,9 @@ describe('--tail', () => {
     expect(Number(upper.stdout.split('\n')[1]?.split(',')[1])).toBeCloseTo(0.05, 6);
   });
 });
+
+describe('inspect --plot', () => {
+  it('refuses standard output, which carries the report', () => {
+    expectRefusal(['inspect', '--plot', '-'], 'p\n0.1\n', 2, /--plot -: standard output carries the report; give the plot a file name/);
+  });
+});

@@ -356,7 +356,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   if (format === 'jsonl') checkJsonKeys(table, columns);
-  const plot = (): string => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames);
+  const plot = (): string => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
   await writeOutputs(source, table, columns, format, summary, targets, plot);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.

@@ -24,7 +24,8 @@ import { sortedByFamily } from '../diagnostics/by-family.js';
 import { type FamilyInspection, inspectFamily } from '../diagnostics/inspect-family.js';
 import { inspectionRecord } from '../diagnostics/inspection-record.js';
 import { inspectionText } from '../diagnostics/inspection-text.js';
-import { openOutput } from '../io/atomic-file.js';
+import { UsageError } from '../errors.js';
+import { openOutput, routeOutput } from '../io/atomic-file.js';
 import { readTable } from '../io/read-table.js';
 import { histogramSvg } from '../plots/histogram-svg.js';
 import { familyRecord } from '../summary.js';
@@ -54,7 +55,10 @@ export function inspectCommand(): Command {
 
 async function runInspect(file: string | undefined, options: InspectOptions): Promise<void> {
   const readOptions = tableReadOptions(options);
-  if (options.plot !== undefined) checkPlotTarget(options.plot, [[file, 'the input table']]);
+  if (options.plot !== undefined) {
+    checkPlotTarget(options.plot, [[file, 'the input table']]);
+    if (routeOutput(options.plot).kind === 'stdout') throw new UsageError(`--plot ${options.plot}: standard output carries the report; give the plot a file name`);
+  }
   const table = await readTable(await openInput(file), readOptions);
   if (!options.quiet) for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice.text}\n`);
 
