@@ -288,7 +288,7 @@ async function writeOutputs(
   format: TableFormat,
   summary: Summary,
   targets: { table?: string; summary?: string; plot?: string },
-  plot: () => string,
+  plot: () => Promise<string>,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -319,7 +319,7 @@ async function writeOutputs(
     if (targets.plot !== undefined) {
       const plotFile = openOutput(targets.plot);
       files.push(plotFile);
-      plotFile.stream.write(plot());
+      plotFile.stream.write(await plot());
     }
     for (const done of files) await done.finish();
     for (const done of files) done.install();
@@ -356,7 +356,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
   const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   if (format === 'jsonl') checkJsonKeys(table, columns);
-  const plot = (): string => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
+  const plot = (): Promise<string> => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
   await writeOutputs(source, table, columns, format, summary, targets, plot);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.

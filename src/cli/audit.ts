@@ -18,9 +18,7 @@ Examples (without --method, audit finds the procedure that fits):
 
 import type { Command } from 'commander';
 import { z } from 'zod';
-import { type Grouping, type Printed, auditClaims, presentPerFamily, recompute } from '../audit/audit.js';
-import { columnHalfUnits } from '../audit/matching.js';
-import { auditReport, auditText } from '../audit/report.js';
+import type { Grouping, Printed } from '../audit/audit.js';
 import { UsageError, quoteText } from '../errors.js';
 import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';
 import { singleFamily } from '../families.js';
@@ -68,6 +66,12 @@ export function auditCommand(): Command {
 }
 
 async function runAudit(file: string | undefined, options: AuditOptions): Promise<void> {
+  // The audit's machinery loads only when audit runs, so that other commands start faster.
+  const [{ auditClaims, presentPerFamily, recompute }, { columnHalfUnits }, { auditReport, auditText }] = await Promise.all([
+    import('../audit/audit.js'),
+    import('../audit/matching.js'),
+    import('../audit/report.js'),
+  ]);
   const source = await openInput(file);
   const table = await readTable(source, {
     ...tableReadOptions(options),

@@ -19,15 +19,11 @@ Examples:
   famwise inspect gwas.tsv --p-scale minus-log10`;
 
 import type { Command } from 'commander';
+import type { FamilyInspection } from '../diagnostics/inspect-family.js';
 import { z } from 'zod';
-import { sortedByFamily } from '../diagnostics/by-family.js';
-import { type FamilyInspection, inspectFamily } from '../diagnostics/inspect-family.js';
-import { inspectionRecord } from '../diagnostics/inspection-record.js';
-import { inspectionText } from '../diagnostics/inspection-text.js';
 import { UsageError } from '../errors.js';
 import { openOutput, routeOutput } from '../io/atomic-file.js';
 import { readTable } from '../io/read-table.js';
-import { histogramSvg } from '../plots/histogram-svg.js';
 import { familyRecord } from '../summary.js';
 import { inputOptionsSchema, openInput, tableCommand, tableReadOptions } from './options.js';
 import { checkPlotTarget, familyTitles, omittedNote } from './plot-output.js';
@@ -59,6 +55,14 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
     checkPlotTarget(options.plot, [[file, 'the input table']]);
     if (routeOutput(options.plot).kind === 'stdout') throw new UsageError(`--plot ${options.plot}: standard output carries the report; give the plot a file name`);
   }
+  // The diagnostics and plots load only when inspect runs, so that other commands start faster.
+  const [{ sortedByFamily }, { inspectFamily }, { inspectionRecord }, { inspectionText }, { histogramSvg }] = await Promise.all([
+    import('../diagnostics/by-family.js'),
+    import('../diagnostics/inspect-family.js'),
+    import('../diagnostics/inspection-record.js'),
+    import('../diagnostics/inspection-text.js'),
+    import('../plots/histogram-svg.js'),
+  ]);
   const table = await readTable(await openInput(file), readOptions);
   if (!options.quiet) for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice.text}\n`);
 
@@ -75,7 +79,7 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
       plot.stream.write(figure.svg);
       await plot.finish();
       plot.install();
-      const omitted = omittedNote(figure);
+      const omitted = omittedNote(figure, inspections.length);
       if (omitted !== null && !options.quiet) process.stderr.write(`famwise: note: ${omitted}\n`);
     } catch (error) {
       plot.abort();

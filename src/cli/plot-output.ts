@@ -1,13 +1,11 @@
 // The --plot option shared by the subcommands: checking the target before
 // any reading, and assembling the figures' panels from what was computed.
 
-import { sortedByFamily } from '../diagnostics/by-family.js';
 import { UsageError } from '../errors.js';
 import type { WithinFamilies } from '../families.js';
 import type { Table } from '../io/read-table.js';
 import type { Method } from '../methods.js';
-import { discoveriesSvg } from '../plots/discoveries-svg.js';
-import { type Figure, MAX_PANELS } from '../plots/svg.js';
+import type { Figure } from '../plots/svg.js';
 import { familyLabel, familyRecord } from '../summary.js';
 import { checkWritable, samePath } from './options.js';
 
@@ -25,25 +23,29 @@ export function familyTitles(table: Table, familyColumnNames: readonly string[])
   return table.familyValues.map((values) => familyLabel(familyRecord(familyColumnNames, values)));
 }
 
-/** The note for a figure that left families out, or null when it drew them all. */
-export function omittedNote(figure: Figure): string | null {
+/** The note for a figure of `families` panels that left some out, or null when it drew them all. */
+export function omittedNote(figure: Figure, families: number): string | null {
   if (figure.omitted === 0) return null;
-  return `the plot shows the first ${MAX_PANELS} families, in table order; the other ${figure.omitted} are left out (filter the table to plot them)`;
+  return `the plot shows the first ${families - figure.omitted} families, in table order; the other ${figure.omitted} are left out (filter the table to plot them)`;
 }
 
 const stderrNote = (text: string): void => {
   process.stderr.write(`famwise: note: ${text}\n`);
 };
 
-/** The discoveries-by-level figure of an adjustment; `note` hears about families left out of it. */
-export function discoveriesPlot(
+/**
+ * The discoveries-by-level figure of an adjustment; `note` hears about
+ * families left out of it. The plotting code loads only when a plot is asked for.
+ */
+export async function discoveriesPlot(
   table: Table,
   result: WithinFamilies,
   methods: readonly Method[],
   alpha: number,
   familyColumnNames: readonly string[],
   note: (text: string) => void = stderrNote,
-): string {
+): Promise<string> {
+  const [{ sortedByFamily }, { discoveriesSvg }] = await Promise.all([import('../diagnostics/by-family.js'), import('../plots/discoveries-svg.js')]);
   const byMethod = result.adjusted.map((adjusted) => sortedByFamily(adjusted, table.families).sorted);
   const panels = familyTitles(table, familyColumnNames).map((title, f) => ({ title, sortedAdjusted: byMethod.map((families) => families[f] as Float64Array) }));
   const figure = discoveriesSvg(
@@ -51,7 +53,7 @@ export function discoveriesPlot(
     alpha,
     panels,
   );
-  const omitted = omittedNote(figure);
+  const omitted = omittedNote(figure, panels.length);
   if (omitted !== null) note(omitted);
   return figure.svg;
 }
