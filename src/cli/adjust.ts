@@ -29,6 +29,7 @@ import { EXIT_HELP } from '../exit-codes.js';
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
+import { compressedIfNamed } from '../io/gzip.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, readPValue } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
@@ -268,7 +269,7 @@ async function writeOutputs(
     for (const unfinished of files) unfinished.abort();
     throw error;
   };
-  const tableFile = openOutput(targets.table ?? '-');
+  const tableFile = compressedIfNamed(targets.table, openOutput(targets.table ?? '-'));
   files.push(tableFile);
   try {
     await writeTable(source, table.shape, columns, format, new ByteSink(tableFile.stream), table.p.length);

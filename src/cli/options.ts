@@ -9,7 +9,9 @@ import { z } from 'zod';
 import { UsageError } from '../errors.js';
 import { DELIMITERS } from '../io/dialect.js';
 import { routeOutput } from '../io/atomic-file.js';
-import { type InputSource, fileSource, streamSource } from '../io/source.js';
+import { decompressedIfGzip } from '../io/gzip.js';
+import { type InputSource, fileSource } from '../io/source.js';
+import { spilledSource } from '../io/spill.js';
 
 /** Collects a repeatable, comma-separated option into one list. */
 export function collectList(value: string, previous: string[] | undefined): string[] {
@@ -92,13 +94,13 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
     if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
     }
-    return streamSource(process.stdin);
+    return decompressedIfGzip(await spilledSource(process.stdin, '<stdin>'));
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);
   if (stat.isDirectory()) throw new UsageError(`${file}: is a folder, not a table`);
-  // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it in memory.
-  return stat.isFile() ? fileSource(file) : streamSource(createReadStream(file), file);
+  // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it (spill.ts).
+  return decompressedIfGzip(stat.isFile() ? fileSource(file) : await spilledSource(createReadStream(file), file));
 }
 
 /** Whether two paths name the same file (following links), whether or not it exists yet. */

@@ -11,6 +11,15 @@
 // is not a record (blank lines are passed over, but kept by writers).
 // A UTF-8 byte-order mark at the start of the input is not part of the first
 // field.
+//
+// Speed: most lines of a large table hold no quote at all. For those the
+// scanner takes a fast path: it finds the line's end with indexOf (native,
+// memchr-like) and splits it at the delimiter in one tight loop, with no
+// rule to weigh per byte. A line that holds a quote, a file with lone-CR
+// line endings, and the unfinished last line of a block go through the
+// general path, byte by byte. Both report exactly the same records
+// (test/fast-scan.test.ts compares them on a corpus of messy tables). Cost:
+// O(bytes) either way.
 
 import { DataError } from '../errors.js';
 
@@ -122,7 +131,37 @@ export class RecordScanner {
     }
     let gapStart = from;
     let lineAtConsumed = this.line;
+    // Lines wholly before the next quote can take the fast path (not with lone-CR line endings).
+    const fastPath = !this.loneCrEndsLine;
+    let nextQuote = -1;
     for (;;) {
+      while (fastPath) {
+        if (nextQuote < pos) {
+          const quote = buf.indexOf(QUOTE, pos);
+          nextQuote = quote < 0 ? length : quote;
+        }
+        const lineEnd = buf.indexOf(LF, pos);
+        if (lineEnd < 0 || lineEnd >= nextQuote) break;
+        const contentEnd = lineEnd > pos && buf[lineEnd - 1] === CR ? lineEnd - 1 : lineEnd;
+        if (contentEnd === pos) {
+          // A blank line (LF or CRLF alone) is not a record.
+          pos = lineEnd + 1;
+          this.line++;
+          continue;
+        }
+        this.splitLine(buf, pos, contentEnd);
+        view.line = this.line++;
+        view.gapStart = gapStart;
+        view.contentStart = pos;
+        view.contentEnd = contentEnd;
+        view.next = lineEnd + 1;
+        this.atInputStart = false;
+        onRecord(view);
+        pos = lineEnd + 1;
+        consumed = pos;
+        gapStart = pos;
+        lineAtConsumed = this.line;
+      }
       // Blank lines are not records.
       let lineBreak = 0;
       while (pos < length && (lineBreak = this.lineBreakAt(buf, pos, atEnd)) > 0) {
@@ -149,6 +188,25 @@ export class RecordScanner {
       gapStart = pos;
       lineAtConsumed = this.line;
     }
+  }
+
+  /** The fields of a line without quotes, buf[start, end): split at every delimiter. */
+  private splitLine(buf: Buffer, start: number, end: number): void {
+    const view = this.view;
+    const delimiter = this.delimiter;
+    let fields = 0;
+    let fieldStart = start;
+    for (let pos = start; pos < end; pos++) {
+      if (buf[pos] !== delimiter) continue;
+      if (fields === view.starts.length - 1) this.growFields();
+      view.starts[fields] = fieldStart;
+      view.ends[fields] = pos;
+      fields++;
+      fieldStart = pos + 1;
+    }
+    view.starts[fields] = fieldStart;
+    view.ends[fields] = end;
+    view.fieldCount = fields + 1;
   }
 
   /** Scans one record starting at pos into the view; false if it is incomplete. */

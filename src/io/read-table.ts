@@ -8,6 +8,7 @@ import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, isNumberText, readPValue, readWeight, whyNotPValue, whyNotWeight } from './p-value-text.js';
+import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
@@ -192,11 +193,8 @@ function shownText(latin1: string): string {
   return latin1.replace(/[\x80-\xff]/g, (character) => `\\x${character.charCodeAt(0).toString(16)}`);
 }
 
-/** Encodings and compressions that famwise does not read, recognised by their first bytes. */
+/** Encodings that famwise does not read, recognised by their first bytes (gzip is decompressed before: io/gzip.ts). */
 function refuseUnreadable(head: Buffer, name: string): void {
-  if (head[0] === 0x1f && head[1] === 0x8b) {
-    throw new DataError(`${name}: the file is gzip-compressed; decompress it first, e.g. zcat ${name} | famwise adjust`);
-  }
   if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) {
     throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f UTF-16 -t UTF-8 ${name}`);
   }
@@ -271,14 +269,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (view.fieldCount !== table.columnCount) {
       throw new DataError(`${source.name}:${view.line}: ${fieldCountMessage(view, table, p.length === 0)}`);
     }
-    const text = fieldText(view, pColumn);
-    const value = readPValue(text, decimalCommaAllowed);
-    if (value === 'invalid') {
-      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
-    }
-    if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
-    p.push(value === 'missing' ? NaN : value);
-    if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
+    // Most cells are plain decimals, read from the bytes; the rest go through the text.
+    const simple = simpleDecimal(view.buf, view.starts[pColumn], view.ends[pColumn]);
+    const value = simple !== NOT_SIMPLE && simple <= 1 ? simple : readRowPValue(view, table);
+    p.push(value);
+    if (weightsColumn >= 0) weights.push(Number.isNaN(value) ? NaN : readRowWeight(view, table));
     if (claimedColumn >= 0) readRowClaim(view, table);
     if (options.lineNumbers) lines.push(view.line);
     if (keyTrackers.length > 0) trackKeys(view);
@@ -297,6 +292,17 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       familyValues.push(bytes.map(shownText));
     }
     familyIds.push(id);
+  };
+
+  /** The p-value in a row (NaN where missing), read from the field's text; an error names a bad one. */
+  const readRowPValue = (view: RecordView, table: TableShape): number => {
+    const text = fieldText(view, pColumn);
+    const value = readPValue(text, decimalCommaAllowed);
+    if (value === 'invalid') {
+      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed)}`);
+    }
+    if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
+    return value === 'missing' ? NaN : value;
   };
 
   const readRowWeight = (view: RecordView, table: TableShape): number => {
