@@ -39,6 +39,7 @@ import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estim
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { CAUTION } from './cautions.js';
+import { progressLine, showsProgress } from './progress.js';
 import { addInputOptions, alphaSchema, testsSchema, checkWritable, collectList, inputOptionsSchema, openInput, parseOptions, samePath } from './options.js';
 
 
@@ -297,7 +298,9 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const settings = methodSettings(options);
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
-  const source = fromValues ?? (await openInput(file));
+  const opened = fromValues ?? (await openInput(file));
+  const progressWanted = showsProgress({ stderrIsTerminal: process.stderr.isTTY === true, quiet: options.quiet, env: process.env });
+  const source = progressWanted ? progressLine((text) => process.stderr.write(text)).watch(opened) : opened;
   const table = await readTable(source, {
     delimiter: fromValues ? COMMA : options.delimiter,
     header: fromValues ? true : options.header,

@@ -3,13 +3,15 @@
 // are simply read again; standard input and pipes are first read to their end
 // (spill.ts), gzip is decompressed on every pass (gzip.ts).
 
-import { createReadStream } from 'node:fs';
+import { createReadStream, statSync } from 'node:fs';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
   readonly name: string;
   /** File name extension in lower case ('' for stdin), a hint for the delimiter. */
   readonly extension: string;
+  /** Bytes of content, when known before reading (a plain file, a spilled stream). */
+  readonly size?: number;
   chunks(): AsyncIterable<Buffer>;
 }
 
@@ -20,6 +22,7 @@ export function fileSource(path: string): InputSource {
   return {
     name: path,
     extension: dot > path.lastIndexOf('/') ? path.slice(dot + 1).toLowerCase() : '',
+    size: statSync(path).size,
     chunks: () => createReadStream(path, { highWaterMark: READ_SIZE }),
   };
 }
@@ -28,6 +31,7 @@ export function bufferSource(bytes: Buffer, name: string): InputSource {
   return {
     name,
     extension: '',
+    size: bytes.length,
     async *chunks() {
       yield bytes;
     },

@@ -54,11 +54,13 @@ async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<vo
 export async function spilledSource(stream: Readable, name: string): Promise<InputSource> {
   const kept: Buffer[] = [];
   let keptSize = 0;
+  let size = 0;
   let file: FileHandle | undefined;
   for await (const piece of stream) {
     const chunk = typeof piece === 'string' ? Buffer.from(piece) : (piece as Buffer);
     kept.push(chunk);
     keptSize += chunk.length;
+    size += chunk.length;
     if (keptSize < (file ? WRITE_SIZE : IN_MEMORY)) continue;
     file ??= await temporaryFile();
     await writeAll(file, kept.splice(0));
@@ -68,6 +70,7 @@ export async function spilledSource(stream: Readable, name: string): Promise<Inp
     return {
       name,
       extension: '',
+      size,
       async *chunks() {
         yield* kept;
       },
@@ -78,6 +81,7 @@ export async function spilledSource(stream: Readable, name: string): Promise<Inp
   return {
     name,
     extension: '',
+    size,
     // Read by position, so that passes (and a first look that stops early) never disturb each other.
     async *chunks() {
       for (let position = 0; ; ) {
