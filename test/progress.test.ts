@@ -87,7 +87,7 @@ describe('drawing', () => {
     expect(firstPass[0]).toBe('\r\x1b[Kfamwise: reading: 30 lines, about 7 s left');
     expect(firstPass.at(-1)).toBe('\r\x1b[K');
     await readAll(source);
-    expect(written.some((text) => text.includes('writing: 60 of 120 lines, about 2 s left'))).toBe(true);
+    expect(written.some((text) => text.includes('writing: 63 of 120 lines, about 2 s left'))).toBe(true);
     expect(written.at(-1)).toBe('\r\x1b[K');
   });
 
