@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { RecordScanner, type RecordView } from '../src/io/csv-scan.js';
 import { seededRandom } from './helpers/random.js';
 
-interface Record {
+interface ScannedRecord {
   line: number;
   gap: string;
   fields: string[];
@@ -14,7 +14,7 @@ interface Record {
 }
 
 interface Outcome {
-  records: Record[];
+  records: ScannedRecord[];
   trailing: string;
   error?: string;
 }
@@ -22,7 +22,7 @@ interface Outcome {
 /** Scans bytes fed in blocks ending at `cuts`, as scanInput feeds them, carrying unfinished records. */
 function scanInBlocks(bytes: Buffer, delimiter: number, fastPath: boolean, cuts: readonly number[], loneCrEndsLine = false): Outcome {
   const scanner = new RecordScanner(delimiter, 'messy.csv', loneCrEndsLine, fastPath);
-  const records: Record[] = [];
+  const records: ScannedRecord[] = [];
   const onRecord = (view: RecordView): void => {
     const { buf } = view;
     records.push({

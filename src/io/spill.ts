@@ -50,8 +50,11 @@ async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<vo
   }
 }
 
-/** Reads a stream to its end, into memory or (when large) a temporary file, and returns it as a source. */
-export async function spilledSource(stream: Readable, name: string): Promise<InputSource> {
+/**
+ * Reads a stream to its end, into memory or (past `inMemory` bytes) a
+ * temporary file, and returns it as a source.
+ */
+export async function spilledSource(stream: Readable, name: string, inMemory = IN_MEMORY): Promise<InputSource> {
   const kept: Buffer[] = [];
   let keptSize = 0;
   let size = 0;
@@ -61,7 +64,7 @@ export async function spilledSource(stream: Readable, name: string): Promise<Inp
     kept.push(chunk);
     keptSize += chunk.length;
     size += chunk.length;
-    if (keptSize < (file ? WRITE_SIZE : IN_MEMORY)) continue;
+    if (keptSize < (file ? WRITE_SIZE : inMemory)) continue;
     file ??= await temporaryFile();
     await writeAll(file, kept.splice(0));
     keptSize = 0;
