@@ -155,6 +155,8 @@ function checkWeightsUsage(options: AdjustOptions): void {
 /** An adjusted value as the shortest decimal that reads back to the same double. */
 function formatAdjusted(value: number, decimalComma: boolean): string {
   if (Number.isNaN(value)) return '';
+  // Most FWER-adjusted values of a large table are capped at 1: no need to format them.
+  if (value === 1) return '1';
   const text = String(value);
   return decimalComma ? text.replace('.', ',') : text;
 }

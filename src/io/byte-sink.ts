@@ -1,7 +1,7 @@
 // Buffered output with back-pressure: bytes and text are copied into one
 // large block, which is handed to the stream when it is full, waiting for
-// 'drain' when the stream is busy, so that memory stays bounded however
-// large the table. Copying into a block allocated up front, rather than
+// 'drain' when the stream has too much queued, so that memory stays bounded
+// however large the table. Copying into a block allocated up front, rather than
 // keeping a list of pieces, leaves nothing per row for the garbage collector.
 // A write error (such as EPIPE when the reader of a pipe has gone) is raised
 // from the next flush.
@@ -9,8 +9,13 @@
 import type { Writable } from 'node:stream';
 
 const BLOCK_SIZE = 1 << 20;
+/** Bytes left queued in the stream before waiting for it to drain. */
+const MAX_QUEUED = 16 << 20;
 /** Runs up to this many bytes are copied byte by byte. */
 const SHORT = 128;
+const QUOTE = 0x22;
+const LF = 0x0a;
+const CR = 0x0d;
 
 export class ByteSink {
   private block = Buffer.allocUnsafeSlow(BLOCK_SIZE);
@@ -67,6 +72,27 @@ export class ByteSink {
     this.size += block.write(text, size);
   }
 
+  /**
+   * Appends a delimiter byte and then a cell's text, if the text is short
+   * ASCII holding no delimiter, quote or line break (a number, true, false);
+   * otherwise appends nothing and returns false, for the caller to quote it.
+   * One pass over the text both checks and copies it.
+   */
+  pushPlainCell(delimiter: number, text: string): boolean {
+    if (text.length > SHORT) return false;
+    if (this.size + 1 + text.length > this.block.length) this.nextBlock(1 + text.length);
+    const block = this.block;
+    let size = this.size;
+    block[size++] = delimiter;
+    for (let i = 0; i < text.length; i++) {
+      const code = text.charCodeAt(i);
+      if (code > 0x7f || code === delimiter || code === QUOTE || code === LF || code === CR) return false;
+      block[size++] = code;
+    }
+    this.size = size;
+    return true;
+  }
+
   /** Puts the filled block aside to be written, and starts a new one that holds at least `room` bytes. */
   private nextBlock(room: number): void {
     if (this.size > 0) this.full.push(this.block.subarray(0, this.size));
@@ -78,10 +104,11 @@ export class ByteSink {
   async flush(force = false): Promise<void> {
     if (this.failure) throw this.failure;
     if (force && this.size > 0) this.nextBlock(0);
-    const blocks = this.full.splice(0);
-    let ready = true;
-    for (const block of blocks) ready = this.stream.write(block);
-    if (ready) return;
+    for (const block of this.full.splice(0)) this.stream.write(block);
+    // Waiting for 'drain' at every block would stop the work at each write
+    // (a file stream's own limit is 16 KB); blocks are left queued up to a
+    // bound instead, so that writing overlaps with making the next ones.
+    if (this.stream.writableLength <= MAX_QUEUED) return;
     await new Promise<void>((resolve, reject) => {
       const onDrain = (): void => {
         this.stream.off('error', onError);

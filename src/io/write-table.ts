@@ -88,10 +88,12 @@ export async function writeTable(
 
   const delimiter = String.fromCharCode(format.delimiter);
   const copyFields = format.delimiter === shape.delimiter;
-  await scanInput(source, shape, {
+  // Records copied whole need only their bounds, not their fields.
+  const wholeRecords = copyFields && replacing.size === 0;
+  await scanInput(source, { ...shape, splitFields: !wholeRecords }, {
     record(view) {
       const { buf } = view;
-      if (copyFields && replacing.size === 0) {
+      if (wholeRecords) {
         sink.pushBytes(buf, view.gapStart, view.contentEnd);
       } else {
         sink.pushBytes(buf, view.gapStart, view.contentStart);
@@ -104,8 +106,10 @@ export async function writeTable(
         }
       }
       for (const column of appended) {
+        const text = row < 0 ? column.name : column.cell(row);
+        if (sink.pushPlainCell(format.delimiter, text)) continue;
         sink.pushText(delimiter);
-        sink.pushText(quoted(row < 0 ? column.name : column.cell(row), delimiter));
+        sink.pushText(quoted(text, delimiter));
       }
       sink.pushBytes(buf, view.contentEnd, view.next);
       row++;
