@@ -3,7 +3,7 @@
 // of the row is kept; writers read the source again to copy it out.
 
 import { DataError, UsageError, quoteText } from '../errors.js';
-import type { FamilyGrouping } from '../families.js';
+import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
@@ -277,10 +277,8 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     if (claimedColumn >= 0) readRowClaim(view, table);
     if (options.lineNumbers) lines.push(view.line);
     if (keyTrackers.length > 0) trackKeys(view);
-    if (familyColumns.length === 0) {
-      familyIds.push(0);
-      return;
-    }
+    // Without family columns every row is in family 0: nothing to keep per row.
+    if (familyColumns.length === 0) return;
     // Keyed on the bytes, so that values differing only in bytes that are not
     // valid UTF-8 stay apart; decoded as UTF-8 only to show them.
     const bytes = familyColumns.map((column) => fieldText(view, column, 'latin1'));
@@ -370,7 +368,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
             .map((tracker) => ({ column: tracker.column, families: { ids: tracker.ids.toArray(), count: tracker.index.size } })),
         }
       : {}),
-    families: { ids: familyIds.toArray(), count: familyValues.length },
+    families: familyColumns.length === 0 ? singleFamily(p.length) : { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
     notices,
