@@ -97,6 +97,14 @@ describe(`a ${ROWS.toLocaleString('en')}-row table streams through unchanged, wi
     expect(byChromosome.stdoutBytes.equals(expectedOutput((row) => row.chrom))).toBe(true);
   });
 
+  it('from gzip made of several members, as bgzip writes it', () => {
+    const half = table.indexOf('\n', table.length / 2) + 1;
+    const members = Buffer.concat([gzipSync(table.subarray(0, half)), gzipSync(table.subarray(half))]);
+    const run = famwise(['adjust', ...METHODS], members);
+    expect(run.stderr).toBe('');
+    expect(run.stdoutBytes.equals(oneFamily)).toBe(true);
+  });
+
   it('from gzip on standard input', () => {
     const run = famwise(['adjust', ...METHODS], gzipSync(table));
     expect(run.stderr).toBe('');

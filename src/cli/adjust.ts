@@ -1,11 +1,12 @@
 // famwise adjust: adjust the p-values of a table within families and write
 // the table back with the adjusted values and the decisions.
 
-const USAGE = `Reads a table of raw p-values (CSV or TSV, from FILE or standard input),
-adjusts them within each family with the chosen procedures, and writes the
-same table back with two new columns per method: adj_<method> (the adjusted
-p-value) and rej_<method> (true where it is at most alpha). A summary of the
-rejections goes to standard error.
+const USAGE = `Reads a table of raw p-values (CSV or TSV, plain or gzip, from FILE or
+standard input), adjusts them within each family with the chosen procedures,
+and writes the same table back with two new columns per method: adj_<method>
+(the adjusted p-value) and rej_<method> (true where it is at most alpha). A
+summary of the rejections goes to standard error; at a terminal, a long run
+also shows its progress there.
 
 Missing p-values (${MISSING_MARKS.map((mark) => mark || 'empty').join(', ')}) are
 left out of the number of tests and get empty cells.
@@ -18,7 +19,7 @@ warning that is printed even with --quiet.
 Examples:
   famwise adjust results.csv --methods holm,bh -o adjusted.csv
   famwise adjust screen.tsv --methods storey,bky --pi0 spline
-  zcat scan.tsv.gz | famwise adjust --family chrom --methods bh > adjusted.tsv
+  famwise adjust scan.tsv.gz --family chrom --methods bh -o adjusted.tsv.gz
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
 
@@ -110,7 +111,7 @@ export function adjustCommand(): Command {
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
     .option('--weights <column>', `weight each hypothesis by this column's prior weights (>= 0, any scale, normalised to mean 1 within each family); for ${WEIGHTED_TOKENS.join(', ')}`)
     .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
-    .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
+    .option('-o, --output <file>', 'write the table to this file (all or nothing; gzip-compressed if the name ends in .gz) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'table']))
     .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
