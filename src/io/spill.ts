@@ -23,6 +23,11 @@ const WRITE_SIZE = 4 << 20;
 const READ_SIZE = 4 << 20;
 
 const leftOver = new Set<string>();
+/**
+ * Open spill files, kept referenced until the process exits (which closes
+ * them): a file handle that is garbage-collected is closed with a warning.
+ */
+const openHandles = new Set<FileHandle>();
 
 function removeLeftOver(): void {
   for (const path of leftOver) rmSync(path, { force: true });
@@ -33,6 +38,7 @@ function removeLeftOver(): void {
 async function temporaryFile(): Promise<FileHandle> {
   const path = join(tmpdir(), `famwise-${process.pid}-${randomBytes(6).toString('hex')}.spill`);
   const handle = await open(path, 'wx+', 0o600);
+  openHandles.add(handle);
   try {
     unlinkSync(path);
   } catch {
