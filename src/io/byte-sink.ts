@@ -18,7 +18,11 @@ const LF = 0x0a;
 const CR = 0x0d;
 
 export class ByteSink {
-  private block = Buffer.allocUnsafeSlow(BLOCK_SIZE);
+  private block: Buffer = Buffer.allocUnsafeSlow(BLOCK_SIZE);
+  private blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
+  /** The buffer short runs were last copied from, and a view of it for four-byte reads. */
+  private source: Uint8Array = this.block;
+  private sourceWords = this.blockWords;
   private size = 0;
   private failure: Error | undefined;
   private readonly full: Buffer[] = [];
@@ -45,9 +49,17 @@ export class ByteSink {
       this.size += length;
       return;
     }
-    // A short run is copied faster by hand than through a view of it.
+    // A short run is copied faster by hand than through a view of it, four bytes at a time.
+    if (buf !== this.source) {
+      this.source = buf;
+      this.sourceWords = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
+    }
+    const from = this.sourceWords;
+    const to = this.blockWords;
     let size = this.size;
-    for (let pos = start; pos < end; pos++) block[size++] = buf[pos];
+    let pos = start;
+    for (; pos + 4 <= end; pos += 4, size += 4) to.setUint32(size, from.getUint32(pos));
+    for (; pos < end; pos++) block[size++] = buf[pos];
     this.size = size;
   }
 
@@ -97,6 +109,7 @@ export class ByteSink {
   private nextBlock(room: number): void {
     if (this.size > 0) this.full.push(this.block.subarray(0, this.size));
     this.block = Buffer.allocUnsafeSlow(Math.max(BLOCK_SIZE, room));
+    this.blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
     this.size = 0;
   }
 
