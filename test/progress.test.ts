@@ -6,13 +6,18 @@ import type { InputSource } from '../src/io/source.js';
 import { famwise } from './helpers/cli.js';
 
 describe('whether to draw it', () => {
-  const at = (stderrIsTerminal: boolean, quiet: boolean, env: Record<string, string | undefined> = {}): boolean => showsProgress({ stderrIsTerminal, quiet, env });
+  const at = (stderrIsTerminal: boolean, quiet: boolean, env: Record<string, string | undefined> = {}, tableToTerminal = false): boolean =>
+    showsProgress({ stderrIsTerminal, tableToTerminal, quiet, env });
 
   it('only when standard error is a terminal and not --quiet', () => {
     expect(at(true, false)).toBe(true);
     expect(at(false, false)).toBe(false);
     expect(at(true, true)).toBe(false);
     expect(at(false, true)).toBe(false);
+  });
+
+  it('never when the table itself is written to the terminal', () => {
+    expect(at(true, false, {}, true)).toBe(false);
   });
 
   it('never in CI or on a dumb terminal', () => {

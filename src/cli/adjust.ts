@@ -302,7 +302,12 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const opened = fromValues ?? (await openInput(file));
-  const progressWanted = showsProgress({ stderrIsTerminal: process.stderr.isTTY === true, quiet: options.quiet, env: process.env });
+  const progressWanted = showsProgress({
+    stderrIsTerminal: process.stderr.isTTY === true,
+    tableToTerminal: (targets.table === undefined || routeOutput(targets.table).kind === 'stdout') && process.stdout.isTTY === true,
+    quiet: options.quiet,
+    env: process.env,
+  });
   const source = progressWanted ? progressLine((text) => process.stderr.write(text)).watch(opened) : opened;
   const table = await readTable(source, {
     delimiter: fromValues ? COMMA : options.delimiter,

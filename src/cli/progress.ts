@@ -1,8 +1,8 @@
 // A progress line on standard error for long runs at the terminal: the lines
 // read (first pass) or written (second pass) and an estimate of the time
-// left. It is shown only when standard error is a terminal, never with
-// --quiet, in CI (CI set) or on a dumb terminal, so logs and pipes never
-// receive it; it appears only after the first second, so short runs print
+// left. It is shown only when standard error is a terminal and the table
+// goes elsewhere, never with --quiet, in CI (CI set) or on a dumb terminal,
+// so logs and pipes never receive it; it appears only after the first second, so short runs print
 // nothing, and it is erased at the end of each pass, so that what follows
 // (an error, the summary) starts on a clean line.
 //
@@ -20,14 +20,16 @@ const ERASE = '\r\x1b[K';
 
 export interface ProgressSetting {
   readonly stderrIsTerminal: boolean;
+  /** Whether the table itself is written to the terminal (the line would break into it). */
+  readonly tableToTerminal: boolean;
   readonly quiet: boolean;
   readonly env: Readonly<Record<string, string | undefined>>;
 }
 
 /** Whether to draw a progress line at all. */
-export function showsProgress({ stderrIsTerminal, quiet, env }: ProgressSetting): boolean {
+export function showsProgress({ stderrIsTerminal, tableToTerminal, quiet, env }: ProgressSetting): boolean {
   const inCi = env.CI !== undefined && env.CI !== '' && env.CI !== 'false' && env.CI !== '0';
-  return stderrIsTerminal && !quiet && !inCi && env.TERM !== 'dumb';
+  return stderrIsTerminal && !tableToTerminal && !quiet && !inCi && env.TERM !== 'dumb';
 }
 
 /** What has been done so far, for the text of the line. */
