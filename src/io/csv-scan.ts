@@ -143,7 +143,7 @@ export class RecordScanner {
     }
     let gapStart = from;
     let lineAtConsumed = this.line;
-    // Lines wholly before the next quote can take the fast path (not with lone-CR line endings).
+    // Lines without a quote take the fast path (not in files with lone-CR line endings).
     const fastPath = this.options.fastPath !== false && !this.loneCrEndsLine;
     const splitFields = this.options.splitFields !== false;
     let nextQuote = -1;
