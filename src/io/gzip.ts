@@ -1,8 +1,8 @@
 // gzip in and out. Input is recognised by its first two bytes (the gzip
 // magic number 1f 8b, RFC 1952 section 2.3.1), whatever the file is called,
-// and decompressed on each pass: a second decompression costs less than
-// writing the decompressed table to disk and reading it back (README,
-// Benchmarks). Concatenated gzip members (bgzip output) are read as one
+// and decompressed on each pass: a second decompression measured about as
+// fast as writing the decompressed table to disk and reading it back
+// (README, Benchmarks), and needs no disk space. Concatenated gzip members (bgzip output) are read as one
 // stream. Output is compressed when the output file's name ends in .gz.
 
 import { once } from 'node:events';
