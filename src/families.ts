@@ -106,18 +106,22 @@ export function adjustWithinFamilies(
     }
   }
 
-  // Gather each family's p-values into one contiguous segment.
-  const gathered = new Float64Array(start[count]);
-  const gatheredWeights = weights === undefined ? undefined : new Float64Array(start[count]);
-  const rowOf = new Int32Array(gathered.length);
-  const fill = start.slice(0, count);
-  for (let row = 0; row < p.length; row++) {
-    const value = p[row];
-    if (Number.isNaN(value)) continue;
-    const at = fill[ids[row]]++;
-    gathered[at] = value;
-    rowOf[at] = row;
-    if (gatheredWeights !== undefined) gatheredWeights[at] = (weights as Float64Array)[row];
+  // Gather each family's p-values into one contiguous segment. One family
+  // with nothing missing (the usual large table) is its own segment: no copy.
+  const asIs = count === 1 && missing[0] === 0;
+  const gathered = asIs ? p : new Float64Array(start[count]);
+  const gatheredWeights = asIs || weights === undefined ? weights : new Float64Array(start[count]);
+  const rowOf = asIs ? undefined : new Int32Array(gathered.length);
+  if (rowOf !== undefined) {
+    const fill = start.slice(0, count);
+    for (let row = 0; row < p.length; row++) {
+      const value = p[row];
+      if (Number.isNaN(value)) continue;
+      const at = fill[ids[row]]++;
+      gathered[at] = value;
+      rowOf[at] = row;
+      if (gatheredWeights !== undefined) gatheredWeights[at] = (weights as Float64Array)[row];
+    }
   }
 
   const adjusted = methods.map(() => new Float64Array(p.length).fill(NaN));
@@ -140,7 +144,7 @@ export function adjustWithinFamilies(
         let threshold = -1;
         for (let i = 0; i < values.length; i++) {
           const value = values[i];
-          target[rowOf[from + order[i]]] = value;
+          target[rowOf === undefined ? order[i] : rowOf[from + order[i]]] = value;
           if (value <= options.alpha) {
             rejected++;
             threshold = Math.max(threshold, sorted[i]);

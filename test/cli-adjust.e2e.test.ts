@@ -236,10 +236,11 @@ describe('errors name the place and the text, with the right status', () => {
     });
   }
 
-  it('names the encodings it does not read', () => {
+  it('names the encodings it does not read, and gzip data cut short', () => {
     const gzip = famwise(['adjust'], Buffer.from([0x1f, 0x8b, 8, 0, 0, 0]));
     expect(gzip.status).toBe(1);
-    expect(gzip.stderr).toMatch(/<stdin>: the file is gzip-compressed; decompress it first/);
+    expect(gzip.stderr).toMatch(/^famwise: <stdin>: the gzip data is damaged or cut short \(unexpected end of file\); check the file with gzip -t\n$/);
+    expect(gzip.stdout).toBe('');
     const utf16 = famwise(['adjust'], Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from('p\n0.1\n', 'utf16le')]));
     expect(utf16.status).toBe(1);
     expect(utf16.stderr).toMatch(/<stdin>: the file is UTF-16 text .* convert it to UTF-8 first/);

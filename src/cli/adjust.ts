@@ -1,11 +1,12 @@
 // famwise adjust: adjust the p-values of a table within families and write
 // the table back with the adjusted values and the decisions.
 
-const USAGE = `Reads a table of raw p-values (CSV or TSV, from FILE or standard input),
-adjusts them within each family with the chosen procedures, and writes the
-same table back with two new columns per method: adj_<method> (the adjusted
-p-value) and rej_<method> (true where it is at most alpha). A summary of the
-rejections goes to standard error.
+const USAGE = `Reads a table of raw p-values (CSV or TSV, plain or gzip, from FILE or
+standard input), adjusts them within each family with the chosen procedures,
+and writes the same table back with two new columns per method: adj_<method>
+(the adjusted p-value) and rej_<method> (true where it is at most alpha). A
+summary of the rejections goes to standard error; at a terminal, a long run
+also shows its progress there.
 
 Missing p-values (${MISSING_MARKS.map((mark) => mark || 'empty').join(', ')}) are
 left out of the number of tests and get empty cells.
@@ -18,7 +19,7 @@ warning that is printed even with --quiet.
 Examples:
   famwise adjust results.csv --methods holm,bh -o adjusted.csv
   famwise adjust screen.tsv --methods storey,bky --pi0 spline
-  zcat scan.tsv.gz | famwise adjust --family chrom --methods bh > adjusted.tsv
+  famwise adjust scan.tsv.gz --family chrom --methods bh -o adjusted.tsv.gz
   famwise adjust --values 0.01,0.04,0.03,0.20 --methods bonferroni,bh
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
 
@@ -28,6 +29,7 @@ import { DataError, IncompleteOutputError, UsageError, quoteText } from '../erro
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
+import { compressedIfNamed } from '../io/gzip.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, isNumberText, readPValue, readUpperBound } from '../io/p-value-text.js';
 import { readTable, type Table } from '../io/read-table.js';
@@ -38,6 +40,7 @@ import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estim
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
 import { checkPlotTarget, discoveriesPlot } from './plot-output.js';
+import { progressLine, showsProgress } from './progress.js';
 import { alphaSchema, checkWritable, collectList, inputOptionsSchema, openInput, samePath, tableCommand, tableReadOptions, testsSchema } from './options.js';
 
 
@@ -94,7 +97,7 @@ export function adjustCommand(): Command {
     .option('--tests <n>', 'the real number of tests in each family, when the table holds only some of them (the absent ones count as p = 1)')
     .option('--weights <column>', `weight each hypothesis by this column's prior weights (>= 0, any scale, normalised to mean 1 within each family); for ${WEIGHTED_TOKENS.join(', ')}`)
     .option('--values <list>', 'adjust these p-values (comma-separated) instead of reading a table', collectList)
-    .option('-o, --output <file>', 'write the table to this file (all or nothing) instead of standard output (-: standard output)')
+    .option('-o, --output <file>', 'write the table to this file (all or nothing; gzip-compressed if the name ends in .gz) instead of standard output (-: standard output)')
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv, jsonl (one JSON object per row) or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'jsonl', 'table']))
     .option('--plot <file.svg>', 'also draw, per family, each method\'s discoveries against the level from 0 to 0.25 into this SVG file')
@@ -145,6 +148,8 @@ const COMPUTED_P_COLUMN = 'p_raw';
 /** An adjusted value as the shortest decimal that reads back to the same double. */
 function formatAdjusted(value: number, decimalComma: boolean): string {
   if (Number.isNaN(value)) return '';
+  // Most FWER-adjusted values of a large table are capped at 1: no need to format them.
+  if (value === 1) return '1';
   const text = String(value);
   return decimalComma ? text.replace('.', ',') : text;
 }
@@ -295,7 +300,7 @@ async function writeOutputs(
     for (const unfinished of files) unfinished.abort();
     throw error;
   };
-  const tableFile = openOutput(targets.table ?? '-');
+  const tableFile = compressedIfNamed(targets.table, openOutput(targets.table ?? '-'));
   files.push(tableFile);
   const sink = new ByteSink(tableFile.stream);
   try {
@@ -334,7 +339,14 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p', boundsAsValues: options.boundsAsValues } : tableReadOptions(options);
-  const source = fromValues ?? (await openInput(file));
+  const opened = fromValues ?? (await openInput(file));
+  const progressWanted = showsProgress({
+    stderrIsTerminal: process.stderr.isTTY === true,
+    tableToTerminal: (targets.table === undefined || routeOutput(targets.table).kind === 'stdout') && process.stdout.isTTY === true,
+    quiet: options.quiet,
+    env: process.env,
+  });
+  const source = progressWanted ? progressLine((text) => process.stderr.write(text)).watch(opened) : opened;
   const table = await readTable(source, { ...readOptions, weightsColumn: options.weights });
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);

@@ -11,7 +11,9 @@ import { EXIT_HELP } from '../exit-codes.js';
 import { CAUTION } from './cautions.js';
 import { DELIMITERS } from '../io/dialect.js';
 import { routeOutput } from '../io/atomic-file.js';
-import { type InputSource, fileSource, streamSource } from '../io/source.js';
+import { decompressedIfGzip } from '../io/gzip.js';
+import { type InputSource, fileSource } from '../io/source.js';
+import { spilledSource } from '../io/spill.js';
 import { type StatisticKind, type Tail, STATISTIC_KINDS, TAILS_ALLOWED, DEGREES_NEEDED, defaultTail } from '../distributions/p-from-statistic.js';
 import type { DegreesSource, ValueReading } from '../io/statistic-text.js';
 import type { ReadOptions } from '../io/read-table.js';
@@ -219,7 +221,7 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
     if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
     }
-    return streamSource(process.stdin);
+    return decompressedIfGzip(await spilledSource(process.stdin, '<stdin>'));
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);
@@ -229,8 +231,8 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
   } catch {
     throw new UsageError(`${file}: is not readable (permission denied)`);
   }
-  // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it in memory.
-  return stat.isFile() ? fileSource(file) : streamSource(createReadStream(file), file);
+  // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it (spill.ts).
+  return decompressedIfGzip(stat.isFile() ? fileSource(file) : await spilledSource(createReadStream(file), file));
 }
 
 /** Whether two paths name the same file (following links), whether or not it exists yet. */

@@ -1,27 +1,39 @@
-// Append-only typed arrays that double their capacity as they fill: rows are
-// kept as numbers in one buffer each, never as per-row objects.
+// Append-only typed arrays: rows are kept as numbers, never as per-row
+// objects. Values go into fixed blocks of BLOCK values each, so that growing
+// never copies what is already kept, and the final array is assembled once:
+// at most twice the values are held at any moment (the blocks and the result),
+// not three times as with an array that doubles and is then trimmed.
 
 type NumberArray = Float64Array | Int32Array;
 
+const BLOCK = 1 << 16;
+
 export class Growable<T extends NumberArray> {
-  private data: T;
+  private readonly full: T[] = [];
+  private block: T;
+  private used = 0;
   length = 0;
 
   constructor(private readonly allocate: (size: number) => T) {
-    this.data = allocate(1024);
+    // The first block is allocated at the first push: many tables never fill some arrays.
+    this.block = allocate(0);
   }
 
   push(value: number): void {
-    if (this.length === this.data.length) {
-      const bigger = this.allocate(this.data.length * 2);
-      bigger.set(this.data);
-      this.data = bigger;
+    if (this.used === this.block.length) {
+      if (this.used > 0) this.full.push(this.block);
+      this.block = this.allocate(BLOCK);
+      this.used = 0;
     }
-    this.data[this.length++] = value;
+    this.block[this.used++] = value;
+    this.length++;
   }
 
-  /** The values pushed, trimmed to length (a copy, so later pushes do not show). */
+  /** The values pushed, in one array of exactly length (a copy, so later pushes do not show). */
   toArray(): T {
-    return this.data.slice(0, this.length) as T;
+    const out = this.allocate(this.length);
+    this.full.forEach((block, k) => out.set(block, k * BLOCK));
+    out.set(this.block.subarray(0, this.used), this.full.length * BLOCK);
+    return out;
   }
 }

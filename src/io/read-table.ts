@@ -3,11 +3,12 @@
 // of the row is kept; writers read the source again to copy it out.
 
 import { DataError, UsageError, quoteText } from '../errors.js';
-import type { FamilyGrouping } from '../families.js';
+import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
+import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { peek, scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
@@ -230,11 +231,8 @@ function utf16Without(head: Buffer): string | undefined {
   return undefined;
 }
 
-/** Encodings, compressions and spreadsheet files that famwise does not read, recognised by their first bytes. */
+/** Encodings and spreadsheet files that famwise does not read, recognised by their first bytes (gzip is decompressed before: io/gzip.ts). */
 function refuseUnreadable(head: Buffer, name: string): void {
-  if (startsWith(head, 0x1f, 0x8b)) {
-    throw new DataError(`${name}: the file is gzip-compressed; decompress it first, e.g. zcat ${name} | famwise adjust`);
-  }
   const utf16 = startsWith(head, 0xff, 0xfe) || startsWith(head, 0xfe, 0xff) ? 'UTF-16' : utf16Without(head);
   if (utf16) {
     throw new DataError(`${name}: the file is UTF-16 text (as some spreadsheet "Unicode text" exports are); convert it to UTF-8 first, e.g. iconv -f ${utf16} -t UTF-8 ${name}`);
@@ -352,36 +350,45 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       refuse(view, () => fieldCountMessage(view, table, pColumn, p.length === 0));
       return;
     }
-    const text = fieldText(view, pColumn);
+    // Most cells are plain decimals, read straight from the bytes (they can be neither bounds nor
+    // underflows); the rest, and statistics, go through the text.
+    const simple = converter ? NOT_SIMPLE : simpleDecimal(view.buf, view.starts[pColumn], view.ends[pColumn]);
+    let text: string | undefined;
     let value: PValueText;
-    try {
-      value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
-    } catch (error) {
-      if (!(error instanceof CellRefusal)) throw error;
-      refuse(view, () => error.reason);
-      return;
+    let bound: number | undefined;
+    if (simple !== NOT_SIMPLE && simple <= 1) value = simple;
+    else {
+      text = fieldText(view, pColumn);
+      try {
+        value = converter ? converter.pValue(text, view) : readPValue(text, decimalCommaAllowed);
+      } catch (error) {
+        if (!(error instanceof CellRefusal)) throw error;
+        refuse(view, () => error.reason);
+        return;
+      }
+      bound = value === 'invalid' && !converter && options.boundsAsValues ? readUpperBound(text, decimalCommaAllowed) : undefined;
+      if (bound !== undefined) {
+        value = bound;
+        remark('bound', view, table, text);
+      }
+      if (value === 'invalid') {
+        const shown = text;
+        refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(shown)} is not a p-value: ${whyNotPValue(shown, decimalCommaAllowed, options.boundsAsValues)}`);
+        return;
+      }
+      if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
+      if (converter ? value === 0 : underflowed(text, value)) remark(converter ? 'computedUnderflow' : 'underflow', view, table, text);
     }
-    const bound = value === 'invalid' && !converter && options.boundsAsValues ? readUpperBound(text, decimalCommaAllowed) : undefined;
-    if (bound !== undefined) {
-      value = bound;
-      remark('bound', view, table, text);
-    }
-    if (value === 'invalid') {
-      refuse(view, () => `${columnLabel(table, pColumn)}: ${quoteText(text)} is not a p-value: ${whyNotPValue(text, decimalCommaAllowed, options.boundsAsValues)}`);
-      return;
-    }
-    if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
-    if (converter ? value === 0 : underflowed(text, value)) remark(converter ? 'computedUnderflow' : 'underflow', view, table, text);
     p.push(value === 'missing' ? NaN : value);
     if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
     if (claimedColumn >= 0) readRowClaim(view, table);
     if (options.lineNumbers) lines.push(view.line);
-    if (options.pPrecision) pHalfUnits.push(value === 'missing' ? NaN : converter || bound !== undefined ? 0 : (readPrintedValue(text, decimalCommaAllowed)?.halfUnit ?? 0));
-    if (keyTrackers.length > 0) trackKeys(view);
-    if (familyColumns.length === 0) {
-      familyIds.push(0);
-      return;
+    if (options.pPrecision) {
+      pHalfUnits.push(value === 'missing' ? NaN : converter || bound !== undefined ? 0 : (readPrintedValue(text ?? fieldText(view, pColumn), decimalCommaAllowed)?.halfUnit ?? 0));
     }
+    if (keyTrackers.length > 0) trackKeys(view);
+    // Without family columns every row is in family 0: nothing to keep per row.
+    if (familyColumns.length === 0) return;
     // Keyed on the bytes, so that values differing only in bytes that are not
     // valid UTF-8 stay apart; decoded as UTF-8 only to show them.
     const bytes = familyColumns.map((column) => fieldText(view, column, 'latin1'));
@@ -395,6 +402,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     familyIds.push(id);
   };
 
+  /** The p-value in a row (NaN where missing), read from the field's text; an error names a bad one. */
   const readRowWeight = (view: RecordView, table: TableShape): number => {
     const text = fieldText(view, weightsColumn);
     const weight = readWeight(text, decimalCommaAllowed);
@@ -479,7 +487,7 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
         }
       : {}),
     pComputed: options.reading !== undefined,
-    families: { ids: familyIds.toArray(), count: familyValues.length },
+    families: familyColumns.length === 0 ? singleFamily(p.length) : { ids: familyIds.toArray(), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
     notices,

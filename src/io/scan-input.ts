@@ -2,7 +2,7 @@
 // blocks of at least BLOCK_SIZE before scanning, and the unfinished record at
 // the end of a block is carried into the next one.
 
-import { RecordScanner, type RecordView } from './csv-scan.js';
+import { RecordScanner, type RecordView, type ScanOptions } from './csv-scan.js';
 import type { Dialect } from './dialect.js';
 import type { InputSource } from './source.js';
 
@@ -28,8 +28,8 @@ export async function peek(source: InputSource, want: number): Promise<Buffer> {
   return Buffer.concat(parts);
 }
 
-export async function scanInput(source: InputSource, dialect: Dialect, handlers: ScanHandlers): Promise<void> {
-  const scanner = new RecordScanner(dialect.delimiter, source.name, dialect.loneCrEndsLine);
+export async function scanInput(source: InputSource, dialect: Dialect & ScanOptions, handlers: ScanHandlers): Promise<void> {
+  const scanner = new RecordScanner(dialect.delimiter, source.name, dialect.loneCrEndsLine, dialect);
   let carry: Buffer = Buffer.alloc(0);
   let pending: Buffer[] = [];
   let pendingSize = 0;

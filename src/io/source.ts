@@ -1,15 +1,17 @@
 // Where a table's bytes come from. A source can be read more than once: the
 // first pass collects the p-values, the second writes the table back. Files
-// are simply read again; standard input is read to its end and kept in memory.
+// are simply read again; standard input and pipes are first read to their end
+// (spill.ts), gzip is decompressed on every pass (gzip.ts).
 
-import { createReadStream } from 'node:fs';
-import type { Readable } from 'node:stream';
+import { createReadStream, statSync } from 'node:fs';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
   readonly name: string;
   /** File name extension in lower case ('' for stdin), a hint for the delimiter. */
   readonly extension: string;
+  /** Bytes of content, when known before reading (a plain file, a spilled stream). */
+  readonly size?: number;
   chunks(): AsyncIterable<Buffer>;
 }
 
@@ -20,23 +22,8 @@ export function fileSource(path: string): InputSource {
   return {
     name: path,
     extension: dot > path.lastIndexOf('/') ? path.slice(dot + 1).toLowerCase() : '',
+    size: statSync(path).size,
     chunks: () => createReadStream(path, { highWaterMark: READ_SIZE }),
-  };
-}
-
-/**
- * A stream (standard input) read to its end and kept in memory, so that it
- * can be passed over more than once.
- */
-export async function streamSource(stream: Readable, name = '<stdin>'): Promise<InputSource> {
-  const kept: Buffer[] = [];
-  for await (const chunk of stream) kept.push(typeof chunk === 'string' ? Buffer.from(chunk) : (chunk as Buffer));
-  return {
-    name,
-    extension: '',
-    async *chunks() {
-      yield* kept;
-    },
   };
 }
 
@@ -44,6 +31,7 @@ export function bufferSource(bytes: Buffer, name: string): InputSource {
   return {
     name,
     extension: '',
+    size: bytes.length,
     async *chunks() {
       yield bytes;
     },

@@ -24,7 +24,12 @@ export interface OutputColumn {
 }
 
 function needsQuotes(text: string, delimiter: string): boolean {
-  return text.includes(delimiter) || text.includes('"') || text.includes('\n') || text.includes('\r');
+  const code = delimiter.charCodeAt(0);
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === code || c === 0x22 || c === 0x0a || c === 0x0d) return true;
+  }
+  return false;
 }
 
 /** A cell's text, quoted if the delimiter, a quote or a line break is in it. */
@@ -83,26 +88,30 @@ export async function writeTable(
 
   const delimiter = String.fromCharCode(format.delimiter);
   const copyFields = format.delimiter === shape.delimiter;
-  await scanInput(source, shape, {
+  // Records copied whole need only their bounds, not their fields.
+  const wholeRecords = copyFields && replacing.size === 0;
+  await scanInput(source, { ...shape, splitFields: !wholeRecords }, {
     record(view) {
       const { buf } = view;
-      if (copyFields && replacing.size === 0) {
-        sink.push(buf.subarray(view.gapStart, view.contentEnd));
+      if (wholeRecords) {
+        sink.pushBytes(buf, view.gapStart, view.contentEnd);
       } else {
-        sink.push(buf.subarray(view.gapStart, view.contentStart));
+        sink.pushBytes(buf, view.gapStart, view.contentStart);
         for (let k = 0; k < view.fieldCount; k++) {
-          if (k > 0) sink.push(delimiter);
+          if (k > 0) sink.pushText(delimiter);
           const replacement = row >= 0 ? replacing.get(k) : undefined;
-          if (replacement) sink.push(quoted(replacement.cell(row), delimiter));
-          else if (copyFields) sink.push(buf.subarray(view.starts[k], view.ends[k]));
+          if (replacement) sink.pushText(quoted(replacement.cell(row), delimiter));
+          else if (copyFields) sink.pushBytes(buf, view.starts[k], view.ends[k]);
           else sink.push(quotedBytes(fieldBytes(view, k), delimiter));
         }
       }
       for (const column of appended) {
-        sink.push(delimiter);
-        sink.push(quoted(row < 0 ? column.name : column.cell(row), delimiter));
+        const text = row < 0 ? column.name : column.cell(row);
+        if (sink.pushPlainCell(format.delimiter, text)) continue;
+        sink.pushText(delimiter);
+        sink.pushText(quoted(text, delimiter));
       }
-      sink.push(buf.subarray(view.contentEnd, view.next));
+      sink.pushBytes(buf, view.contentEnd, view.next);
       row++;
     },
     afterBlock: () => sink.flush(),

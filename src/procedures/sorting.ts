@@ -32,9 +32,16 @@ function smallAscendingOrder(p: Float64Array): Uint32Array {
 export function ascendingOrder(p: Float64Array): Uint32Array {
   const n = p.length;
   if (n < SMALL) return smallAscendingOrder(p);
-  const values = new Float64Array(n);
-  for (let i = 0; i < n; i++) values[i] = p[i] + 0; // +0 turns -0 into 0, whose bits sort first
-  const bits = new Uint32Array(values.buffer);
+  // -0 must sort with 0; its bits would sort last. A copy with +0 added
+  // (which turns -0 into 0) is made only when there is one.
+  let values = p;
+  for (let i = 0; i < n; i++) {
+    if (p[i] === 0 && 1 / p[i] < 0) {
+      values = p.map((value) => value + 0);
+      break;
+    }
+  }
+  const bits = new Uint32Array(values.buffer, values.byteOffset, 2 * n);
   let order = new Uint32Array(n);
   for (let i = 0; i < n; i++) order[i] = i;
   let spare = new Uint32Array(n);

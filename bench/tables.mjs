@@ -1,0 +1,105 @@
+// Times `famwise adjust --methods bh,holm` on whole tables, from a file and
+// from standard input, and optionally the reference R pipeline side by side
+// (runs alternate, medians compared). Tables come from
+// ../shared/bench/make-table.mjs and are cached in bench-out/tables/ (git
+// ignores bench-out/). Peak memory is the maximum resident set size that
+// /usr/bin/time reports (Debian package `time`). Not part of npm test.
+//
+//   node bench/tables.mjs [--rows 1000000,10000000] [--runs 3] [--reference] [--gzip]
+//
+// --reference  also run Rscript ../shared/bench/r-pipeline.R (needs r-base-core, r-cran-data.table)
+// --gzip       also time a gzip copy of each table: from the file (decompressed on both passes)
+//              and through `zcat | famwise` (decompressed once, spilled to a temporary file)
+import { execFileSync, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync } from 'node:fs';
+import { cpus, loadavg, totalmem } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { parseArgs } from 'node:util';
+
+const { values: args } = parseArgs({
+  options: {
+    rows: { type: 'string', default: '1000000,10000000' },
+    runs: { type: 'string', default: '3' },
+    reference: { type: 'boolean', default: false },
+    gzip: { type: 'boolean', default: false },
+  },
+});
+const root = fileURLToPath(new URL('..', import.meta.url));
+const shared = fileURLToPath(new URL('../../shared/bench/', import.meta.url));
+const cli = `${root}dist/cli/main.js`;
+const folder = `${root}bench-out/tables/`;
+mkdirSync(folder, { recursive: true });
+const runs = Number(args.runs);
+const TIME = '/usr/bin/time';
+
+function table(rows) {
+  const path = `${folder}table-${rows}.csv`;
+  if (!existsSync(path)) {
+    console.error(`writing ${path} with make-table.mjs ...`);
+    const fd = openSync(path, 'w');
+    execFileSync(process.execPath, [`${shared}make-table.mjs`, String(rows)], { stdio: ['ignore', fd, 'inherit'] });
+    closeSync(fd);
+  }
+  return path;
+}
+
+function gzipCopy(path) {
+  const gz = `${path}.gz`;
+  if (!existsSync(gz)) execFileSync('sh', ['-c', `gzip -1 -c "${path}" > "${gz}"`]);
+  return gz;
+}
+
+/** Runs a shell command under /usr/bin/time; wall seconds and peak resident memory (MB) of the command. */
+function timed(command) {
+  const result = spawnSync(TIME, ['-f', 'famwise-bench %e %M', 'sh', '-c', command], { encoding: 'utf8' });
+  const line = result.stderr.split('\n').find((text) => text.startsWith('famwise-bench '));
+  if (result.status !== 0 || !line) throw new Error(`${command} failed:\n${result.stderr}`);
+  const [, seconds, kilobytes] = line.split(' ');
+  return { seconds: Number(seconds), rssMb: Number(kilobytes) / 1024 };
+}
+
+const median = (values) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
+
+function digest(path) {
+  return createHash('sha256').update(readFileSync(path)).digest('hex').slice(0, 16);
+}
+
+const famwise = (input, output) => `"${process.execPath}" "${cli}" adjust ${input} --methods bh,holm -q -o "${output}"`;
+
+console.log(`node ${process.version}, ${cpus().length} x ${cpus()[0]?.model ?? 'cpu'}, ${(totalmem() / 2 ** 30).toFixed(0)} GB; load average at start ${loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+for (const rows of args.rows.split(',').map(Number)) {
+  const path = table(rows);
+  const megabytes = statSync(path).size / 1e6;
+  const out = `${folder}out-${rows}.csv`;
+  const commands = {
+    'famwise, file': famwise(`"${path}"`, `${out}.file`),
+    'famwise, stdin': `${famwise('', `${out}.stdin`)} < "${path}"`,
+  };
+  if (args.gzip) {
+    const gz = gzipCopy(path);
+    commands['famwise, .gz file (decompressed twice)'] = famwise(`"${gz}"`, `${out}.gz-file`);
+    commands['zcat | famwise (decompressed once, spilled)'] = `zcat "${gz}" | ${famwise('', `${out}.gz-pipe`)}`;
+  }
+  if (args.reference) commands['R data.table reference'] = `Rscript "${shared}r-pipeline.R" "${path}" "${out}.r"`;
+  const results = Object.fromEntries(Object.keys(commands).map((name) => [name, []]));
+  for (let run = 0; run < runs; run++) {
+    for (const [name, command] of Object.entries(commands)) results[name].push(timed(command));
+  }
+  console.log(`\n${rows.toLocaleString('en')} rows, ${megabytes.toFixed(0)} MB, median of ${runs} alternating runs, load average now ${loadavg()[0].toFixed(2)}`);
+  for (const [name, measured] of Object.entries(results)) {
+    const seconds = median(measured.map((m) => m.seconds));
+    const rss = Math.max(...measured.map((m) => m.rssMb));
+    const all = measured.map((m) => m.seconds.toFixed(2)).join(' ');
+    console.log(
+      `  ${name.padEnd(46)} ${seconds.toFixed(2).padStart(7)} s  (${all})  ${(rows / seconds / 1e6).toFixed(2)} M rows/s  ${(megabytes / seconds).toFixed(0)} MB/s  peak RSS ${rss.toFixed(0)} MB`,
+    );
+  }
+  const fileOut = digest(`${out}.file`);
+  console.log(`  output from file and from stdin identical: ${fileOut === digest(`${out}.stdin`)}`);
+  if (args.reference) {
+    const ratio = median(results['famwise, file'].map((m) => m.seconds)) / median(results['R data.table reference'].map((m) => m.seconds));
+    const stdinRatio = median(results['famwise, stdin'].map((m) => m.seconds)) / median(results['R data.table reference'].map((m) => m.seconds));
+    console.log(`  ratio famwise / reference: ${ratio.toFixed(2)} (file), ${stdinRatio.toFixed(2)} (stdin)`);
+  }
+}

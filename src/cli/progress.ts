@@ -1,0 +1,125 @@
+// A progress line on standard error for long runs at the terminal: the lines
+// read (first pass) or written (second pass) and an estimate of the time
+// left. It is shown only when standard error is a terminal and the table
+// goes elsewhere, never with --quiet, in CI (CI set) or on a dumb terminal,
+// so logs and pipes never receive it; it appears only after the first second, so short runs print
+// nothing, and it is erased at the end of each pass, so that what follows
+// (an error, the summary) starts on a clean line.
+//
+// The estimate assumes the rest goes at the speed so far, and that the
+// second pass takes as long as the first (both read every byte once).
+
+import type { InputSource } from '../io/source.js';
+
+const LF = 0x0a;
+/** Nothing is shown before this many milliseconds. */
+const QUIET_START = 1000;
+/** The line is redrawn at most this often (milliseconds). */
+const REDRAW = 250;
+const ERASE = '\r\x1b[K';
+
+export interface ProgressSetting {
+  readonly stderrIsTerminal: boolean;
+  /** Whether the table itself is written to the terminal (the line would break into it). */
+  readonly tableToTerminal: boolean;
+  readonly quiet: boolean;
+  readonly env: Readonly<Record<string, string | undefined>>;
+}
+
+/** Whether to draw a progress line at all. */
+export function showsProgress({ stderrIsTerminal, tableToTerminal, quiet, env }: ProgressSetting): boolean {
+  const inCi = env.CI !== undefined && env.CI !== '' && env.CI !== 'false' && env.CI !== '0';
+  return stderrIsTerminal && !tableToTerminal && !quiet && !inCi && env.TERM !== 'dumb';
+}
+
+/** What has been done so far, for the text of the line. */
+export interface ProgressState {
+  /** 0 while the table is read, 1 while it is written back. */
+  readonly pass: number;
+  readonly lines: number;
+  /** Lines of the whole table, once the first pass has counted them. */
+  readonly totalLines: number | undefined;
+  readonly bytes: number;
+  /** Bytes of the whole table, when known in advance (a plain file) or counted by the first pass. */
+  readonly totalBytes: number | undefined;
+  /** Milliseconds spent in this pass. */
+  readonly elapsed: number;
+}
+
+function seconds(milliseconds: number): string {
+  const total = Math.max(1, Math.round(milliseconds / 1000));
+  return total < 60 ? `${total} s` : `${Math.floor(total / 60)} min ${String(total % 60).padStart(2, '0')} s`;
+}
+
+/** Milliseconds left: the rest of this pass at its speed so far, and all of the second pass while in the first. */
+export function timeLeft(state: ProgressState): number | undefined {
+  const { totalBytes, bytes, elapsed, pass } = state;
+  if (totalBytes === undefined || bytes === 0 || elapsed <= 0) return undefined;
+  const thisPass = (elapsed * Math.max(0, totalBytes - bytes)) / bytes;
+  return pass === 0 ? thisPass + (elapsed * totalBytes) / bytes : thisPass;
+}
+
+export function progressText(state: ProgressState): string {
+  const count = state.lines.toLocaleString('en');
+  const done = state.pass === 0 ? `reading: ${count} lines` : `writing: ${count}${state.totalLines === undefined ? '' : ` of ${state.totalLines.toLocaleString('en')}`} lines`;
+  const left = timeLeft(state);
+  return `famwise: ${done}${left === undefined ? '' : `, about ${seconds(left)} left`}`;
+}
+
+export interface Progress {
+  /** The source, counting what passes through it; the line is erased whenever a pass ends, however it ends. */
+  watch(source: InputSource): InputSource;
+}
+
+/** A progress line written with `write`, timed by `now` (milliseconds). */
+export function progressLine(write: (text: string) => void, now: () => number = () => performance.now()): Progress {
+  let pass = 0;
+  let lines = 0;
+  let bytes = 0;
+  let totalLines: number | undefined;
+  let totalBytes: number | undefined;
+  const started = now();
+  let passStarted = started;
+  let drawn = false;
+  let lastDrawn = -Infinity;
+
+  const draw = (): void => {
+    const time = now();
+    if (time - started < QUIET_START || time - lastDrawn < REDRAW) return;
+    lastDrawn = time;
+    drawn = true;
+    write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
+  };
+
+  return {
+    watch(source) {
+      totalBytes = source.size;
+      return {
+        ...source,
+        async *chunks() {
+          // A first look at the start of the table (which stops early) counts as no pass.
+          lines = 0;
+          bytes = 0;
+          passStarted = now();
+          try {
+            for await (const chunk of source.chunks()) {
+              bytes += chunk.length;
+              for (let at = chunk.indexOf(LF); at >= 0; at = chunk.indexOf(LF, at + 1)) lines++;
+              draw();
+              yield chunk;
+            }
+            if (pass === 0) {
+              totalLines = lines;
+              totalBytes = bytes;
+            }
+            pass++;
+          } finally {
+            // Messages (an error, the summary) start on a clean line.
+            if (drawn) write(ERASE);
+            drawn = false;
+          }
+        },
+      };
+    },
+  };
+}

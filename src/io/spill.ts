@@ -1,0 +1,105 @@
+// A stream that can be read only once (standard input, a pipe) made into a
+// source that can be read twice. A small input stays in memory; once it
+// passes IN_MEMORY bytes, everything goes to a temporary file in the
+// system's temporary folder, so that a table of tens of millions of rows
+// costs disk, not memory. The file is unlinked as soon as it is opened and
+// read through its descriptor, so nothing is left behind however the process
+// ends (even when it is killed); where unlinking an open file is not
+// allowed, it is removed on exit instead. Cost: one extra write and read of
+// the input, both sequential.
+
+import { randomBytes } from 'node:crypto';
+import { rmSync, unlinkSync } from 'node:fs';
+import { type FileHandle, open } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Readable } from 'node:stream';
+import type { InputSource } from './source.js';
+
+/** Inputs up to this size are kept in memory (typing at the terminal, short pipes). */
+const IN_MEMORY = 32 << 20;
+/** Chunks are gathered into writes of about this size. */
+const WRITE_SIZE = 4 << 20;
+const READ_SIZE = 4 << 20;
+
+const leftOver = new Set<string>();
+/**
+ * Open spill files, kept referenced until the process exits (which closes
+ * them): a file handle that is garbage-collected is closed with a warning.
+ */
+const openHandles = new Set<FileHandle>();
+
+function removeLeftOver(): void {
+  for (const path of leftOver) rmSync(path, { force: true });
+  leftOver.clear();
+}
+
+/** A temporary file, opened and then unlinked at once (or removed at exit where that fails). */
+async function temporaryFile(): Promise<FileHandle> {
+  const path = join(tmpdir(), `famwise-${process.pid}-${randomBytes(6).toString('hex')}.spill`);
+  const handle = await open(path, 'wx+', 0o600);
+  openHandles.add(handle);
+  try {
+    unlinkSync(path);
+  } catch {
+    if (leftOver.size === 0) process.on('exit', removeLeftOver);
+    leftOver.add(path);
+  }
+  return handle;
+}
+
+async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<void> {
+  let block = Buffer.concat(chunks);
+  while (block.length > 0) {
+    const { bytesWritten } = await file.write(block);
+    block = block.subarray(bytesWritten);
+  }
+}
+
+/**
+ * Reads a stream to its end, into memory or (past `inMemory` bytes) a
+ * temporary file, and returns it as a source.
+ */
+export async function spilledSource(stream: Readable, name: string, inMemory = IN_MEMORY): Promise<InputSource> {
+  const kept: Buffer[] = [];
+  let keptSize = 0;
+  let size = 0;
+  let file: FileHandle | undefined;
+  for await (const piece of stream) {
+    const chunk = typeof piece === 'string' ? Buffer.from(piece) : (piece as Buffer);
+    kept.push(chunk);
+    keptSize += chunk.length;
+    size += chunk.length;
+    if (keptSize < (file ? WRITE_SIZE : inMemory)) continue;
+    file ??= await temporaryFile();
+    await writeAll(file, kept.splice(0));
+    keptSize = 0;
+  }
+  if (!file) {
+    return {
+      name,
+      extension: '',
+      size,
+      async *chunks() {
+        yield* kept;
+      },
+    };
+  }
+  await writeAll(file, kept);
+  const handle = file;
+  return {
+    name,
+    extension: '',
+    size,
+    // Read by position, so that passes (and a first look that stops early) never disturb each other.
+    async *chunks() {
+      for (let position = 0; ; ) {
+        const block = Buffer.allocUnsafe(READ_SIZE);
+        const { bytesRead } = await handle.read(block, 0, READ_SIZE, position);
+        if (bytesRead === 0) return;
+        position += bytesRead;
+        yield block.subarray(0, bytesRead);
+      }
+    },
+  };
+}

@@ -1,0 +1,109 @@
+// The progress line: when it is drawn at all, what it says, and that it is
+// erased. Time is a counter the test moves, never the clock.
+import { describe, expect, it } from 'vitest';
+import { progressLine, progressText, showsProgress, timeLeft } from '../src/cli/progress.js';
+import type { InputSource } from '../src/io/source.js';
+import { famwise } from './helpers/cli.js';
+
+describe('whether to draw it', () => {
+  const at = (stderrIsTerminal: boolean, quiet: boolean, env: Record<string, string | undefined> = {}, tableToTerminal = false): boolean =>
+    showsProgress({ stderrIsTerminal, tableToTerminal, quiet, env });
+
+  it('only when standard error is a terminal and not --quiet', () => {
+    expect(at(true, false)).toBe(true);
+    expect(at(false, false)).toBe(false);
+    expect(at(true, true)).toBe(false);
+    expect(at(false, true)).toBe(false);
+  });
+
+  it('never when the table itself is written to the terminal', () => {
+    expect(at(true, false, {}, true)).toBe(false);
+  });
+
+  it('never in CI or on a dumb terminal', () => {
+    expect(at(true, false, { CI: 'true' })).toBe(false);
+    expect(at(true, false, { CI: '1' })).toBe(false);
+    expect(at(true, false, { TERM: 'dumb' })).toBe(false);
+    expect(at(true, false, { CI: 'false' })).toBe(true);
+    expect(at(true, false, { CI: '' })).toBe(true);
+  });
+
+  it('never when standard error is a pipe (an end-to-end run)', () => {
+    const rows = Array.from({ length: 2000 }, (_, i) => `${(i + 1) / 2001}`).join('\n');
+    const run = famwise(['adjust', '--methods', 'bh'], `p\n${rows}\n`);
+    expect(run.status).toBe(0);
+    expect(run.stderr).not.toMatch(/\r|reading:|writing:/);
+  });
+});
+
+describe('what it says', () => {
+  it('estimates the rest of this pass and all of the second while reading', () => {
+    // 25% read in 1 s: 3 s for the rest of the first pass, 4 s for the second.
+    expect(timeLeft({ pass: 0, lines: 10, totalLines: undefined, bytes: 250, totalBytes: 1000, elapsed: 1000 })).toBe(7000);
+    expect(timeLeft({ pass: 1, lines: 10, totalLines: 40, bytes: 500, totalBytes: 1000, elapsed: 2000 })).toBe(2000);
+    expect(timeLeft({ pass: 0, lines: 10, totalLines: undefined, bytes: 250, totalBytes: undefined, elapsed: 1000 })).toBeUndefined();
+  });
+
+  it('names the lines and the time left', () => {
+    expect(progressText({ pass: 0, lines: 1234567, totalLines: undefined, bytes: 250, totalBytes: 1000, elapsed: 1000 })).toBe('famwise: reading: 1,234,567 lines, about 7 s left');
+    expect(progressText({ pass: 1, lines: 5, totalLines: 10, bytes: 50, totalBytes: 100, elapsed: 60_000 })).toBe('famwise: writing: 5 of 10 lines, about 1 min 00 s left');
+    expect(progressText({ pass: 0, lines: 3, totalLines: undefined, bytes: 3, totalBytes: undefined, elapsed: 10 })).toBe('famwise: reading: 3 lines');
+  });
+});
+
+/** A source of `count` chunks of three lines each; the clock moves `step` ms per chunk. */
+function chunkedSource(count: number, clock: { now: number }, step: number): InputSource {
+  const chunk = Buffer.from('0.1\n0.2\n0.3\n');
+  return {
+    name: 'test.csv',
+    extension: 'csv',
+    size: count * chunk.length,
+    async *chunks() {
+      for (let i = 0; i < count; i++) {
+        clock.now += step;
+        yield chunk;
+      }
+    },
+  };
+}
+
+async function readAll(source: InputSource): Promise<void> {
+  for await (const chunk of source.chunks()) expect(chunk.length).toBe(12);
+}
+
+describe('drawing', () => {
+  it('draws nothing in a run shorter than a second', async () => {
+    const clock = { now: 0 };
+    const written: string[] = [];
+    const source = progressLine((text) => written.push(text), () => clock.now).watch(chunkedSource(10, clock, 45));
+    await readAll(source);
+    await readAll(source);
+    expect(written).toEqual([]);
+  });
+
+  it('counts lines on both passes, at most four times a second, and erases the line after each pass', async () => {
+    const clock = { now: 0 };
+    const written: string[] = [];
+    const source = progressLine((text) => written.push(text), () => clock.now).watch(chunkedSource(40, clock, 100));
+    await readAll(source);
+    const firstPass = written.splice(0);
+    // 4 s in steps of 0.1 s, drawn at 1 s and then every 0.3 s (the first step past 0.25 s) up to 4 s: 11 times, then erased.
+    expect(firstPass.length).toBe(12);
+    expect(firstPass[0]).toBe('\r\x1b[Kfamwise: reading: 30 lines, about 7 s left');
+    expect(firstPass.at(-1)).toBe('\r\x1b[K');
+    await readAll(source);
+    expect(written.some((text) => text.includes('writing: 63 of 120 lines, about 2 s left'))).toBe(true);
+    expect(written.at(-1)).toBe('\r\x1b[K');
+  });
+
+  it('erases the line when a pass stops with an error', async () => {
+    const clock = { now: 0 };
+    const written: string[] = [];
+    const source = progressLine((text) => written.push(text), () => clock.now).watch(chunkedSource(40, clock, 100));
+    await expect(async () => {
+      for await (const _ of source.chunks()) if (clock.now >= 2000) throw new Error('bad row');
+    }).rejects.toThrow('bad row');
+    expect(written.length).toBeGreaterThan(1);
+    expect(written.at(-1)).toBe('\r\x1b[K');
+  });
+});
