@@ -27,7 +27,7 @@ const { values: args } = parseArgs({
 });
 const root = fileURLToPath(new URL('..', import.meta.url));
 const shared = fileURLToPath(new URL('../../shared/bench/', import.meta.url));
-const cli = `${root}dist/cli/main.js`;
+const cli = `${root}dist/cli/famwise.mjs`;
 const folder = `${root}bench-out/tables/`;
 mkdirSync(folder, { recursive: true });
 const runs = Number(args.runs);

@@ -10,7 +10,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const here = dirname(fileURLToPath(import.meta.url));
-const cli = join(here, '..', 'dist', 'cli', 'main.js');
+const cli = join(here, '..', 'dist', 'cli', 'famwise.mjs');
 const input = join(here, 'enzyme-screen.csv');
 const outDir = join(here, 'output');
 mkdirSync(outDir, { recursive: true });

@@ -1,5 +1,6 @@
 // The built command line: `famwise methods`, the new procedures' columns,
 // and --weights, run as a user would.
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { METHODS } from '../src/methods.js';
 import { expectRefusal, famwise } from './helpers/cli.js';
@@ -87,5 +88,26 @@ describe('--weights', () => {
     expect(run.status).toBe(0);
     // Family a: weights 1, 3 -> 0.5, 1.5; m = 2: 2(0.01)/0.5 = 0.04. Family b alone: 0.02.
     expect(run.stdout.split('\n').slice(1, 3)).toEqual(['a,0.01,1,0.04,true', 'b,0.02,9,0.02,true']);
+  });
+});
+
+describe("the README's Methods table", () => {
+  it('is what famwise methods prints, row for row', () => {
+    const readme = readFileSync(new URL('../README.md', import.meta.url), 'utf8');
+    const start = readme.indexOf('| token | procedure | controls |');
+    const rows = readme
+      .slice(start)
+      .split('\n')
+      .slice(2)
+      .filter((line, i, all) => all.slice(0, i + 1).every((row) => row.startsWith('| `')))
+      .map((line) => line.split(' | ').map((cell) => cell.replace(/^\| /, '').replace(/ \|$/, '')));
+    const dash = (text: string): string => text.replace(/(\d)-(\d)/g, '$1–$2');
+    expect(rows.map((row) => row[0])).toEqual(METHODS.map((method) => `\`${method.token}\``));
+    rows.forEach((row, i) => {
+      const method = METHODS[i] as (typeof METHODS)[number];
+      expect(row.slice(1, 5)).toEqual([method.name, method.controls, method.dependence, method.steps]);
+      expect(row[5]?.trim()).toBe(method.adjustWeighted ? 'yes' : '');
+      expect(row[6]).toBe(dash(method.source));
+    });
   });
 });

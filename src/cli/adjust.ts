@@ -101,7 +101,7 @@ export function adjustCommand(): Command {
     .option('--summary <file>', 'also write the rejection summary to this file as JSON (-: standard output, when -o names a file)')
     .addOption(new Option('--format <kind>', 'output as csv, tsv, jsonl (one JSON object per row) or an aligned table (default: the input\'s delimiter; table at a terminal)').choices(['csv', 'tsv', 'jsonl', 'table']))
     .option('--plot <file.svg>', 'also draw, per family, each method\'s discoveries against the level from 0 to 0.25 into this SVG file')
-    .option('--replace', 'overwrite adj_/rej_ columns the table already has, instead of failing')
+    .option('--replace', 'overwrite adj_/rej_/p_raw columns the table already has, instead of failing')
     .addOption(new Option('--pi0 <estimator>', `how the storey method estimates pi0, the share of true null hypotheses (default: ${DEFAULT_PI0_SETTINGS.estimator})`).choices(PI0_ESTIMATORS))
     .option('--pi0-lambda <value>', `the tuning value of --pi0 fixed: pi0 = #{p > value} / (m (1 - value)) (default: ${DEFAULT_PI0_SETTINGS.lambda})`)
     .option('--pi0-seed <n>', `the seed of the resampling in --pi0 bootstrap-mse, a whole number (default: ${DEFAULT_PI0_SETTINGS.seed})`)

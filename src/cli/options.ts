@@ -52,7 +52,7 @@ export function addInputOptions(command: Command): Command {
   return command
     .option('--p-column <name|index>', 'the column of raw p-values (default: the one column named like p, pvalue, p_value, pval)')
     .option('--family <columns>', 'each combination of these columns\' values is a family of its own, adjusted or inspected separately (comma-separated, repeatable)', collectList)
-    .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first line)')
+    .option('--delimiter <char>', 'the field delimiter: comma, tab, semicolon or pipe (default: sniffed from the first two lines)')
     .option('--header', 'the first line names the columns (default: yes, unless it holds only numbers)')
     .option('--no-header', 'the first line is data; columns are named by position, 1, 2, ...')
     .option('--p-scale <scale>', 'how the p-value column is written: plain (0.003) or minus-log10 (2.52 for p = 0.003) (default: plain)')

@@ -3,7 +3,7 @@ import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
 
-export const CLI = fileURLToPath(new URL('../../dist/cli/main.js', import.meta.url));
+export const CLI = fileURLToPath(new URL('../../dist/cli/famwise.mjs', import.meta.url));
 
 export interface Run {
   status: number | null;
