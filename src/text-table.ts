@@ -6,7 +6,6 @@ import { MISSING_MARKS, isNumberText } from './io/p-value-text.js';
 /** Cells that neither make a column text nor number: missing marks, and '-' for "none". */
 const neutral = new Set([...MISSING_MARKS, '-']);
 
-
 // Characters that take two columns in a terminal: East Asian wide and
 // full-width forms, and most emoji (Unicode Standard Annex #11, roughly).
 const WIDE = /[\u1100-\u115f\u2e80-\u303e\u3041-\u33ff\u3400-\u4dbf\u4e00-\u9fff\ua000-\ua4cf\uac00-\ud7a3\uf900-\ufaff\ufe30-\ufe4f\uff00-\uff60\uffe0-\uffe6\u{1f300}-\u{1f64f}\u{1f900}-\u{1f9ff}\u{20000}-\u{3fffd}]/u;

@@ -111,3 +111,9 @@ describe("the README's Methods table", () => {
     });
   });
 });
+
+describe('bad weights on several rows', () => {
+  it('are all counted in the one error, as bad p-values are', () => {
+    expectRefusal(['adjust', '--weights', 'w'], 'p,w\n0.1,-1\n0.2,x\n0.3,1\n', 1, /<stdin>:2: column "w": "-1" is not a weight: .*; 1 more row is refused too \(line 3\)/);
+  });
+});

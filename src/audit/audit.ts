@@ -145,11 +145,13 @@ export function recompute(p: Printed, claims: Printed, candidate: Candidate): Re
 /** A tried candidate and how well it did. */
 export interface Trial {
   readonly candidate: Candidate;
+  readonly recomputed: Recomputed;
   readonly comparison: Comparison;
 }
 
 function trial(p: Printed, claims: Printed, candidate: Candidate, alpha: number): Trial {
-  return { candidate, comparison: compareClaims(p, claims, recompute(p, claims, candidate), alpha) };
+  const recomputed = recompute(p, claims, candidate);
+  return { candidate, recomputed, comparison: compareClaims(p, claims, recomputed, alpha) };
 }
 
 const LARGEST_M = 2 ** 31 - 1;
@@ -259,7 +261,7 @@ export function auditClaims(p: Printed, claims: Printed, groupings: readonly Gro
 
   // Not adjusted at all: the claims are the raw p-values.
   const identity: Recomputed = { value: p.values, low: p.values.map((v, row) => v - (p.halfUnits[row] as number)), high: p.values.map((v, row) => v + (p.halfUnits[row] as number)) };
-  consider('unadjusted', { candidate: { method: chosen.candidate.method, grouping: stated, tests }, comparison: compareClaims(p, claims, identity, alpha) });
+  consider('unadjusted', { candidate: { method: chosen.candidate.method, grouping: stated, tests }, recomputed: identity, comparison: compareClaims(p, claims, identity, alpha) });
   // Another procedure, as stated otherwise.
   if (options.method) for (const method of METHODS) if (method !== options.method) tryCandidate('method', { method, grouping: stated, tests });
   // Other families: none, or another column. A column with a value for nearly every row is an

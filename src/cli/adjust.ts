@@ -32,7 +32,7 @@ import { COMMA, TAB } from '../io/dialect.js';
 import { compressedIfNamed } from '../io/gzip.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, isNumberText, readPValue, readUpperBound } from '../io/p-value-text.js';
-import { readTable, type Table } from '../io/read-table.js';
+import { columnName, readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
@@ -42,7 +42,6 @@ import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summar
 import { checkPlotTarget, discoveriesPlot } from './plot-output.js';
 import { progressLine, showsProgress } from './progress.js';
 import { alphaSchema, checkWritable, collectList, inputOptionsSchema, openInput, samePath, tableCommand, tableReadOptions, testsSchema } from './options.js';
-
 
 const adjustOptionsSchema = inputOptionsSchema.extend({
   methods: z
@@ -357,9 +356,9 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     if (!(notice.id === 'header-guessed' && typedAtTerminal)) note(notice.text);
   }
 
-  const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
+  const familyColumnNames = table.familyColumns.map((column) => columnName(table.shape, column));
   const result = adjustOrExplain(table, options, settings, familyColumnNames);
-  const weightsName = table.weightsColumn === undefined ? undefined : (table.shape.names?.[table.weightsColumn] ?? String(table.weightsColumn + 1));
+  const weightsName = table.weightsColumn === undefined ? undefined : columnName(table.shape, table.weightsColumn);
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
 

@@ -22,7 +22,7 @@ import type { Grouping, Printed } from '../audit/audit.js';
 import { UsageError, quoteText } from '../errors.js';
 import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';
 import { singleFamily } from '../families.js';
-import { type Table, readTable } from '../io/read-table.js';
+import { type Table, columnName, readTable } from '../io/read-table.js';
 import { familyLabel, familyRecord } from '../summary.js';
 import { METHOD_TOKENS, findMethod, likelyMethod } from '../methods.js';
 import { alphaSchema, inputOptionsSchema, openInput, tableCommand, tableReadOptions, testsSchema } from './options.js';
@@ -67,7 +67,7 @@ export function auditCommand(): Command {
 
 async function runAudit(file: string | undefined, options: AuditOptions): Promise<void> {
   // The audit's machinery loads only when audit runs, so that other commands start faster.
-  const [{ auditClaims, presentPerFamily, recompute }, { columnHalfUnits }, { auditReport, auditText }] = await Promise.all([
+  const [{ auditClaims, presentPerFamily }, { columnHalfUnits }, { auditReport, auditText }] = await Promise.all([
     import('../audit/audit.js'),
     import('../audit/matching.js'),
     import('../audit/report.js'),
@@ -89,7 +89,7 @@ async function runAudit(file: string | undefined, options: AuditOptions): Promis
   // Rows filtered out before adjusting (no adjusted value) are, with --only-adjusted-rows, not tests at all.
   const values = options.onlyAdjustedRows ? table.p.map((value, row) => (Number.isNaN(claims.values[row]) ? NaN : value)) : table.p;
   const p: Printed = { values, halfUnits: columnHalfUnits(values, table.pHalfUnits as Float64Array) };
-  const nameOf = (column: number): string => table.shape.names?.[column] ?? String(column + 1);
+  const nameOf = (column: number): string => columnName(table.shape, column);
   const familyColumnNames = table.familyColumns.map(nameOf);
   const stated: Grouping = { columns: familyColumnNames, families: table.families };
   // Alternatives: no families at all, and each other column with few distinct values.
@@ -110,7 +110,7 @@ async function runAudit(file: string | undefined, options: AuditOptions): Promis
     onlyAdjustedRows: options.onlyAdjustedRows,
     p: values,
     claims,
-    recomputed: recompute(p, claims, result.stated.candidate).value,
+    recomputed: result.stated.recomputed.value,
     lines: table.lines as Int32Array,
     listed: options.mismatches,
   };

@@ -23,7 +23,7 @@ import type { FamilyInspection } from '../diagnostics/inspect-family.js';
 import { z } from 'zod';
 import { UsageError } from '../errors.js';
 import { openOutput, routeOutput } from '../io/atomic-file.js';
-import { readTable } from '../io/read-table.js';
+import { columnName, readTable } from '../io/read-table.js';
 import { familyRecord } from '../summary.js';
 import { inputOptionsSchema, openInput, tableCommand, tableReadOptions } from './options.js';
 import { checkPlotTarget, familyTitles, omittedNote } from './plot-output.js';
@@ -66,7 +66,7 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
   const table = await readTable(await openInput(file), readOptions);
   if (!options.quiet) for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice.text}\n`);
 
-  const familyColumnNames = table.familyColumns.map((column) => table.shape.names?.[column] ?? String(column + 1));
+  const familyColumnNames = table.familyColumns.map((column) => columnName(table.shape, column));
   const families = familyColumnNames.length === 0 ? [null] : table.familyValues.map((values) => familyRecord(familyColumnNames, values));
   const titles = familyTitles(table, familyColumnNames);
   const { sorted, missing } = sortedByFamily(table.p, table.families);

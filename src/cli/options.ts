@@ -132,7 +132,7 @@ export function valueReading(options: InputOptions): ValueReading | undefined {
   const { statistic } = options;
   if (statistic === undefined) {
     const stray = (['statisticColumn', 'df', 'dfColumn', 'df2', 'df2Column', 'tail'] as const).find((key) => options[key] !== undefined);
-    if (stray) throw new UsageError(`${FLAGS[stray]} needs --statistic (z, t, chisq or f)`);
+    if (stray) throw new UsageError(`${flagOf(stray)} needs --statistic (z, t, chisq or f)`);
     if (options.pScale === 'minus-log10' && options.boundsAsValues) {
       throw new UsageError('--bounds-as-values and --p-scale minus-log10: bounds are a way of writing p-values; a column of -log10 p has none');
     }
@@ -157,38 +157,10 @@ export function valueReading(options: InputOptions): ValueReading | undefined {
   return { kind: 'statistic', statistic, tail, df, df2 };
 }
 
-const FLAGS: Record<string, string> = {
-  pColumn: '--p-column',
-  pScale: '--p-scale',
-  statistic: '--statistic',
-  statisticColumn: '--statistic-column',
-  df: '--df',
-  dfColumn: '--df-column',
-  df2: '--df2',
-  df2Column: '--df2-column',
-  tail: '--tail',
-  family: '--family',
-  delimiter: '--delimiter',
-  header: '--header',
-  methods: '--methods',
-  alpha: '--alpha',
-  tests: '--tests',
-  values: '--values',
-  output: '--output',
-  summary: '--summary',
-  format: '--format',
-  weights: '--weights',
-  json: '--json',
-  adjustedColumn: '--adjusted-column',
-  method: '--method',
-  mismatches: '--mismatches',
-  onlyAdjustedRows: '--only-adjusted-rows',
-  pi0: '--pi0',
-  pi0Lambda: '--pi0-lambda',
-  pi0Seed: '--pi0-seed',
-  bins: '--bins',
-  plot: '--plot',
-};
+/** The long flag of an option, from its key as commander names it: pColumn -> --p-column. */
+function flagOf(key: string): string {
+  return `--${key.replace(/[A-Z]/g, (letter) => `-${letter.toLowerCase()}`)}`;
+}
 
 /** How to read the table, from the input options (usage errors surface here, before any reading). */
 export function tableReadOptions(options: InputOptions): ReadOptions {
@@ -209,7 +181,7 @@ export function parseOptions<T extends z.ZodType>(schema: T, raw: unknown): z.ou
   if (parsed.success) return parsed.data;
   const issue = parsed.error.issues[0] as z.core.$ZodIssue;
   const key = String(issue.path[0] ?? '');
-  const flag = FLAGS[key] ?? key;
+  const flag = key === '' ? '' : flagOf(key);
   const given = (raw as Record<string, unknown>)[key];
   const shown = typeof given === 'string' ? ` ${JSON.stringify(given)}` : '';
   throw new UsageError(`${flag}${shown}: ${issue.message}`);

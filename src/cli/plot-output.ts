@@ -29,10 +29,6 @@ export function omittedNote(figure: Figure, families: number): string | null {
   return `the plot shows the first ${families - figure.omitted} families, in table order; the other ${figure.omitted} are left out (filter the table to plot them)`;
 }
 
-const stderrNote = (text: string): void => {
-  process.stderr.write(`famwise: note: ${text}\n`);
-};
-
 /**
  * The discoveries-by-level figure of an adjustment; `note` hears about
  * families left out of it. The plotting code loads only when a plot is asked for.
@@ -43,7 +39,7 @@ export async function discoveriesPlot(
   methods: readonly Method[],
   alpha: number,
   familyColumnNames: readonly string[],
-  note: (text: string) => void = stderrNote,
+  note: (text: string) => void,
 ): Promise<string> {
   const [{ sortedByFamily }, { discoveriesSvg }] = await Promise.all([import('../diagnostics/by-family.js'), import('../plots/discoveries-svg.js')]);
   const byMethod = result.adjusted.map((adjusted) => sortedByFamily(adjusted, table.families).sorted);

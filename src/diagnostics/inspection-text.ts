@@ -9,7 +9,6 @@ import type { FamilyInspection } from './inspect-family.js';
 import { CHI_SQUARE_ONE_MEDIAN } from './inflation.js';
 import { shortNumber } from './short-number.js';
 
-
 /** Words wrapped to `width` columns: the first line starts with `first`, later ones with `indent`. */
 export function wrap(text: string, width: number, first: string, indent: string): string[] {
   const lines: string[] = [];

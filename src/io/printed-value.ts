@@ -31,7 +31,6 @@ export function readPrintedValue(text: string, decimalComma = false): PrintedVal
   return { value, halfUnit: 0.5 * 10 ** (exponent - decimals) };
 }
 
-
 /** Adjusted values printed elsewhere may exceed 1 by this much (1.0000000000000002 from summing in another order). */
 const ABOVE_ONE = 1e-9;
 

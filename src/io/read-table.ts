@@ -110,9 +110,13 @@ const P_COLUMN_NAMES = new Set([
   'nominalp', 'pnominal', 'nominalpvalue', 'prt', 'prz', 'prf', 'prchisq',
 ]);
 
-
 export function normalizedName(name: string): string {
   return name.toLowerCase().replace(/[^a-z0-9]/g, '');
+}
+
+/** A column's name from the header, or its 1-based position in a table without one. */
+export function columnName(shape: TableShape, column: number): string {
+  return shape.names?.[column] ?? String(column + 1);
 }
 
 /** How a column is called in messages. */
@@ -380,8 +384,12 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       if (converter ? value === 0 : underflowed(text, value)) remark(converter ? 'computedUnderflow' : 'underflow', view, table, text);
     }
     p.push(value === 'missing' ? NaN : value);
-    if (weightsColumn >= 0) weights.push(value === 'missing' ? NaN : readRowWeight(view, table));
-    if (claimedColumn >= 0) readRowClaim(view, table);
+    if (weightsColumn >= 0) {
+      const weight = value === 'missing' ? NaN : readRowWeight(view, table);
+      if (weight === undefined) return;
+      weights.push(weight);
+    }
+    if (claimedColumn >= 0 && !readRowClaim(view, table)) return;
     if (options.lineNumbers) lines.push(view.line);
     if (options.pPrecision) {
       pHalfUnits.push(value === 'missing' ? NaN : converter || bound !== undefined ? 0 : (readPrintedValue(text ?? fieldText(view, pColumn), decimalCommaAllowed)?.halfUnit ?? 0));
@@ -402,28 +410,33 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     familyIds.push(id);
   };
 
-  /** The p-value in a row (NaN where missing), read from the field's text; an error names a bad one. */
-  const readRowWeight = (view: RecordView, table: TableShape): number => {
+  /** The weight of a row that has a p-value; an error names a missing or bad one. */
+  const readRowWeight = (view: RecordView, table: TableShape): number | undefined => {
     const text = fieldText(view, weightsColumn);
     const weight = readWeight(text, decimalCommaAllowed);
-    const where = `${source.name}:${view.line}: ${columnLabel(table, weightsColumn)}`;
+    const label = columnLabel(table, weightsColumn);
     if (weight === 'missing') {
-      throw new DataError(`${where}: the weight is missing on a row with a p-value; give every tested row a weight (0 if it should never be rejected)`);
+      refuse(view, () => `${label}: the weight is missing on a row with a p-value; give every tested row a weight (0 if it should never be rejected)`);
+      return undefined;
     }
     if (weight === 'invalid' || weight < 0 || Object.is(weight, -0)) {
-      throw new DataError(`${where}: ${quoteText(text)} is not a weight: ${whyNotWeight(text)}`);
+      refuse(view, () => `${label}: ${quoteText(text)} is not a weight: ${whyNotWeight(text)}`);
+      return undefined;
     }
     return weight;
   };
 
-  const readRowClaim = (view: RecordView, table: TableShape): void => {
+  /** Reads a row's claimed adjusted value; false when the cell is refused. */
+  const readRowClaim = (view: RecordView, table: TableShape): boolean => {
     const text = fieldText(view, claimedColumn);
     const printed = MISSING_MARKS.includes(text.trim()) ? { value: NaN, halfUnit: NaN } : readPrintedValue(text, decimalCommaAllowed);
     if (printed === undefined || !(Number.isNaN(printed.value) || admissibleClaim(printed.value))) {
-      throw new DataError(`${source.name}:${view.line}: ${columnLabel(table, claimedColumn)}: ${quoteText(text)} is not an adjusted p-value: expected a number from 0 to 1 or a missing-value mark`);
+      refuse(view, () => `${columnLabel(table, claimedColumn)}: ${quoteText(text)} is not an adjusted p-value: expected a number from 0 to 1 or a missing-value mark`);
+      return false;
     }
     claimedValues.push(printed.value);
     claimedHalfUnits.push(printed.halfUnit);
+    return true;
   };
 
   const trackKeys = (view: RecordView): void => {

@@ -12,7 +12,7 @@ import { scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
 import { type OutputColumn, checkRowCount } from './write-table.js';
 
-/** The keys of the objects: the header's names (or positions) and the new columns' names; undefined if two coincide. */
+/** The keys of the objects: the header's names (or positions) and the new columns' names (the caller refuses repeated ones). */
 export function jsonLinesKeys(shape: TableShape, columns: readonly OutputColumn[]): string[] {
   const own = shape.names ?? Array.from({ length: shape.columnCount }, (_, k) => String(k + 1));
   return [...own, ...columns.filter((column) => column.replaces === undefined).map((column) => column.name)];
