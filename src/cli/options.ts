@@ -10,6 +10,7 @@ import { UsageError } from '../errors.js';
 import { EXIT_HELP } from '../exit-codes.js';
 import { CAUTION } from './cautions.js';
 import { DELIMITERS } from '../io/dialect.js';
+import { isUnsignedNumberText } from '../io/p-value-text.js';
 import { routeOutput } from '../io/atomic-file.js';
 import { decompressedIfGzip } from '../io/gzip.js';
 import { type InputSource, fileSource } from '../io/source.js';
@@ -68,7 +69,7 @@ export function addInputOptions(command: Command): Command {
 
 const positiveNumber = z
   .string()
-  .transform((text) => (/^\s*(\d+\.?\d*|\.\d+)(e[+-]?\d+)?\s*$/i.test(text) ? Number(text) : NaN))
+  .transform((text) => (isUnsignedNumberText(text.trim()) ? Number(text) : NaN))
   .refine((value) => value > 0 && Number.isFinite(value), 'needs a positive number of degrees of freedom, like 10 or 27.4');
 
 export const inputOptionsSchema = z.object({

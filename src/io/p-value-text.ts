@@ -1,5 +1,6 @@
-// Reading a p-value from the text of a table cell. One list of missing-value
-// marks and one number grammar, shared by every command.
+// Reading numbers from the text of table cells: p-values, weights, and (in
+// statistic-text.ts) statistics. One list of missing-value marks and one
+// number grammar, shared by every command and every column.
 
 /** Cell texts that mean "no p-value here" (after trimming spaces). */
 export const MISSING_MARKS: readonly string[] = ['', 'NA', 'na', 'N/A', 'n/a', 'NaN', 'nan', 'NULL', 'null', 'None', '#N/A'];
@@ -23,16 +24,38 @@ export type PValueText = number | 'missing' | 'invalid';
  * (tables not separated by commas), "0,05" reads as 0.05.
  */
 export function readPValue(text: string, decimalComma = false): PValueText {
-  const value = readUnsignedNumber(text, decimalComma);
+  const value = readDecimal(text, decimalComma);
   return typeof value === 'number' && value > 1 ? 'invalid' : value;
 }
 
-/** An unsigned decimal number, a missing-value mark, or 'invalid'; the grammar shared by p-values and weights. */
-function readUnsignedNumber(text: string, decimalComma: boolean): PValueText {
+/**
+ * A decimal number in a cell, the grammar every column shares: 'missing' for
+ * a missing-value mark, 'invalid' for anything else that is not a number;
+ * surrounding spaces ignored, and with decimalComma "0,05" read as 0.05.
+ * Signed numbers (statistics) only where `signed` says so.
+ */
+export function readDecimal(text: string, decimalComma: boolean, signed = false): PValueText {
   let trimmed = text.trim();
   if (missing.has(trimmed)) return 'missing';
   if (decimalComma && trimmed.includes(',')) trimmed = trimmed.replace(',', '.');
-  return DECIMAL.test(trimmed) ? Number(trimmed) : 'invalid';
+  return (signed ? SIGNED_DECIMAL : DECIMAL).test(trimmed) ? Number(trimmed) : 'invalid';
+}
+
+/** Whether a text is a plain unsigned decimal number (as options such as --df take). */
+export function isUnsignedNumberText(text: string): boolean {
+  return DECIMAL.test(text);
+}
+
+const INFINITY = /^[+-]?inf(inity)?$/i;
+const DECIMAL_COMMA = /^[+-]?\d*,\d+$/;
+const DECIMAL_COMMA_REFUSED = 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
+
+/** Why a statistic's cell is not a number, for infinity and a misplaced decimal comma; undefined for other texts. */
+export function whyNotFinite(text: string, decimalCommaAllowed: boolean): string | undefined {
+  const trimmed = text.trim();
+  if (INFINITY.test(trimmed)) return 'an infinite value has no p-value famwise will guess; fix the tool that wrote it';
+  if (!decimalCommaAllowed && DECIMAL_COMMA.test(trimmed)) return DECIMAL_COMMA_REFUSED;
+  return undefined;
 }
 
 /**
@@ -72,15 +95,13 @@ export function whyNotPValue(text: string, decimalCommaAllowed = false, boundsAs
   }
   if (bound === '>' || bound === '≥') return 'it is a bound ("greater than"), not a value, and famwise will not guess one';
   if (trimmed.endsWith('%')) return 'percentages are not accepted; write 5% as 0.05';
-  if (/^[+-]?inf(inity)?$/i.test(trimmed)) return 'infinity is not a p-value';
+  if (INFINITY.test(trimmed)) return 'infinity is not a p-value';
   if (Number.isFinite(value) && trimmed !== '' && (value < 0 || Object.is(value, -0))) return 'p-values cannot be negative';
   if (Number.isFinite(value) && trimmed !== '' && value > 1 && value < 1 + 1e-12) {
     return 'p-values cannot exceed 1; this one exceeds it only in the last digits, as some programs compute a p-value of 1 (round it to 1 upstream)';
   }
   if (Number.isFinite(value) && trimmed !== '' && value > 1) return 'p-values cannot exceed 1 (is this column a statistic, or -log10 p? see --statistic and --p-scale)';
-  if (!decimalCommaAllowed && /^\d*,\d+$/.test(trimmed)) {
-    return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
-  }
+  if (!decimalCommaAllowed && DECIMAL_COMMA.test(trimmed)) return DECIMAL_COMMA_REFUSED;
   return `expected a number from 0 to 1 (like 0.05 or 5e-3) or a missing-value mark (${MISSING_MARKS.filter(Boolean).join(', ')}, or empty)`;
 }
 
@@ -89,7 +110,7 @@ export function whyNotPValue(text: string, decimalCommaAllowed = false, boundsAs
  * missing-value mark, or 'invalid'. Same number grammar as p-values.
  */
 export function readWeight(text: string, decimalComma = false): PValueText {
-  const value = readUnsignedNumber(text, decimalComma);
+  const value = readDecimal(text, decimalComma);
   return typeof value === 'number' && !Number.isFinite(value) ? 'invalid' : value;
 }
 
@@ -97,7 +118,7 @@ export function readWeight(text: string, decimalComma = false): PValueText {
 export function whyNotWeight(text: string): string {
   const trimmed = text.trim();
   if (/^-\s*\d|^-\.\d/.test(trimmed)) return 'weights cannot be negative (0 means the hypothesis is never rejected)';
-  if (/^[+-]?inf(inity)?$/i.test(trimmed) || (DECIMAL.test(trimmed) && !Number.isFinite(Number(trimmed)))) {
+  if (INFINITY.test(trimmed) || (DECIMAL.test(trimmed) && !Number.isFinite(Number(trimmed)))) {
     return 'weights must be finite';
   }
   return 'expected a number >= 0 (like 1, 2.5 or 0)';

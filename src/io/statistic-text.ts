@@ -13,7 +13,7 @@ import {
   type Tail,
   pFromStatistic,
 } from '../distributions/p-from-statistic.js';
-import { MISSING_MARKS, isNumberText } from './p-value-text.js';
+import { MISSING_MARKS, readDecimal, whyNotFinite } from './p-value-text.js';
 
 /** Degrees of freedom: the same for every row, or read from a column (name or 1-based position). */
 export type DegreesSource = { readonly constant: number } | { readonly column: string };
@@ -56,15 +56,13 @@ export function valueKind(reading: ValueReading): StatisticKind | 'minus-log10' 
   return reading.kind === 'statistic' ? reading.statistic : reading.kind;
 }
 
-const missing = new Set(MISSING_MARKS);
-
-/** A number in a cell: finite, signed, decimal or scientific; a decimal comma where allowed. */
+/**
+ * A number in a cell: signed, decimal or scientific, a decimal comma where
+ * allowed (the grammar of p-value-text.ts). A written number too large for a
+ * double (1e400) reads as an infinity: its p-value is 0, as for any huge statistic.
+ */
 export function readNumber(text: string, decimalComma: boolean): number | 'missing' | 'invalid' {
-  let trimmed = text.trim();
-  if (missing.has(trimmed)) return 'missing';
-  if (decimalComma && trimmed.includes(',')) trimmed = trimmed.replace(',', '.');
-  // A written number too large for a double (1e400) reads as an infinity; its p-value is 0, as for any huge statistic.
-  return isNumberText(trimmed) ? Number(trimmed) : 'invalid';
+  return readDecimal(text, decimalComma, true);
 }
 
 function expectedNumber(kind: StatisticKind | 'minus-log10', decimalComma: boolean): string {
@@ -76,11 +74,7 @@ function expectedNumber(kind: StatisticKind | 'minus-log10', decimalComma: boole
 /** Why a value cell was refused; undefined when it is acceptable. */
 export function whyNotValue(kind: StatisticKind | 'minus-log10', value: number | 'invalid', text: string, decimalComma: boolean): string | undefined {
   if (value === 'invalid') {
-    if (/^[+-]?inf(inity)?$/i.test(text.trim())) return 'an infinite value has no p-value famwise will guess; fix the tool that wrote it';
-    if (!decimalComma && /^[+-]?\d*,\d+$/.test(text.trim())) {
-      return 'a decimal comma is read only in tables not separated by commas (tab, ";" or "|"); is --delimiter right?';
-    }
-    return expectedNumber(kind, decimalComma);
+    return whyNotFinite(text, decimalComma) ?? expectedNumber(kind, decimalComma);
   }
   if (kind === 'minus-log10' && value < 0) return '-log10 p cannot be negative (p would exceed 1); is this column already a p-value, or a log without the minus?';
   if ((kind === 'chisq' || kind === 'f') && value < 0) return `${VALUE_NAMES[kind]}s cannot be negative`;
