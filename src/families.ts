@@ -41,8 +41,8 @@ export interface WithinFamilies {
 
 export interface WithinFamiliesOptions {
   readonly alpha: number;
-  /** The real number of tests in every family, when the table holds only some. */
-  readonly tests?: number | undefined;
+  /** The real number of tests in every family (or in each, by family id), when the table holds only some. */
+  readonly tests?: number | readonly number[] | undefined;
   /** Prior weights by row (any scale, normalised to mean 1 within each family); only for methods with a weighted form. */
   readonly weights?: Float64Array | undefined;
   /** Tuning for the procedures that take any. */
@@ -65,6 +65,43 @@ export class ZeroWeightsError extends RangeError {
   constructor(readonly family: number) {
     super(`every weight in family ${family} is zero`);
   }
+}
+
+/**
+ * Each family's present p-values as one contiguous segment: family f is
+ * gathered[start[f]] up to gathered[start[f + 1]], taken from the rows
+ * rowOf[start[f]] ... A table that is one family with nothing missing (the
+ * usual large table) is its own segment: gathered is p itself, rowOf undefined.
+ */
+export interface FamilySegments {
+  readonly start: Int32Array;
+  readonly missing: Int32Array;
+  readonly gathered: Float64Array;
+  readonly rowOf: Int32Array | undefined;
+}
+
+/** Groups the present p-values by family: one pass to count, one to place (a counting sort). */
+export function familySegments(p: Float64Array, families: FamilyGrouping): FamilySegments {
+  const { ids, count } = families;
+  const start = new Int32Array(count + 1);
+  const missing = new Int32Array(count);
+  for (let row = 0; row < p.length; row++) {
+    if (Number.isNaN(p[row])) missing[ids[row]]++;
+    else start[ids[row] + 1]++;
+  }
+  for (let f = 0; f < count; f++) start[f + 1] += start[f];
+  if (count === 1 && missing[0] === 0) return { start, missing, gathered: p, rowOf: undefined };
+  const gathered = new Float64Array(start[count]);
+  const rowOf = new Int32Array(gathered.length);
+  const fill = start.slice(0, count);
+  for (let row = 0; row < p.length; row++) {
+    const value = p[row];
+    if (Number.isNaN(value)) continue;
+    const at = fill[ids[row]]++;
+    gathered[at] = value;
+    rowOf[at] = row;
+  }
+  return { start, missing, gathered, rowOf };
 }
 
 /** A family grouping with every row in one family. */
@@ -92,37 +129,14 @@ export function adjustWithinFamilies(
     if (unweighted) throw new RangeError(`${unweighted.name} has no weighted form`);
   }
 
-  const present = new Int32Array(count);
-  const missing = new Int32Array(count);
-  for (let row = 0; row < p.length; row++) {
-    if (Number.isNaN(p[row])) missing[ids[row]]++;
-    else present[ids[row]]++;
-  }
-  const start = new Int32Array(count + 1);
+  const { start, missing, gathered, rowOf } = familySegments(p, families);
+  const testsOf = (f: number): number | undefined => (typeof options.tests === 'number' ? options.tests : options.tests?.[f]);
   for (let f = 0; f < count; f++) {
-    start[f + 1] = start[f] + present[f];
-    if (options.tests !== undefined && options.tests < present[f]) {
-      throw new TooFewTestsError(f, present[f], options.tests);
-    }
+    const tests = testsOf(f);
+    const present = start[f + 1] - start[f];
+    if (tests !== undefined && tests < present) throw new TooFewTestsError(f, present, tests);
   }
-
-  // Gather each family's p-values into one contiguous segment. One family
-  // with nothing missing (the usual large table) is its own segment: no copy.
-  const asIs = count === 1 && missing[0] === 0;
-  const gathered = asIs ? p : new Float64Array(start[count]);
-  const gatheredWeights = asIs || weights === undefined ? weights : new Float64Array(start[count]);
-  const rowOf = asIs ? undefined : new Int32Array(gathered.length);
-  if (rowOf !== undefined) {
-    const fill = start.slice(0, count);
-    for (let row = 0; row < p.length; row++) {
-      const value = p[row];
-      if (Number.isNaN(value)) continue;
-      const at = fill[ids[row]]++;
-      gathered[at] = value;
-      rowOf[at] = row;
-      if (gatheredWeights !== undefined) gatheredWeights[at] = (weights as Float64Array)[row];
-    }
-  }
+  const gatheredWeights = weights === undefined || rowOf === undefined ? weights : Float64Array.from(rowOf, (row) => (weights as Float64Array)[row]);
 
   const adjusted = methods.map(() => new Float64Array(p.length).fill(NaN));
   const outcomes: FamilyOutcome[][] = [];
@@ -130,7 +144,7 @@ export function adjustWithinFamilies(
     const from = start[f];
     const to = start[f + 1];
     const segment = gathered.subarray(from, to);
-    const m = checkedTestCount(segment, options.tests ?? segment.length);
+    const m = checkedTestCount(segment, testsOf(f) ?? segment.length);
     const order = ascendingOrder(segment);
     const sorted = gather(segment, order);
     const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);

@@ -1,7 +1,7 @@
 // Reading cells and tables: the number grammar, the missing-value list,
 // delimiter sniffing, and within-family adjustment on hand-worked examples.
 import { describe, expect, it } from 'vitest';
-import { adjustWithinFamilies, singleFamily } from '../src/families.js';
+import { TooFewTestsError, adjustWithinFamilies, singleFamily } from '../src/families.js';
 import { sniffDelimiter, sniffLoneCr } from '../src/io/dialect.js';
 import { MISSING_MARKS, readPValue, readUpperBound, underflowed, whyNotPValue } from '../src/io/p-value-text.js';
 import { readTable } from '../src/io/read-table.js';
@@ -137,6 +137,13 @@ describe('adjustWithinFamilies', () => {
     const result = adjustWithinFamilies(Float64Array.of(0.001, 0.002), singleFamily(2), [bh], { alpha: 0.05, tests: 100 });
     expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.1, 0.1]);
     expect(result.outcomes[0]?.[0]?.m).toBe(100);
+  });
+
+  it('takes a number of tests for each family (Bonferroni: m p with each family\'s m)', () => {
+    const bonferroni = findMethod('bonferroni') as Method;
+    const result = adjustWithinFamilies(Float64Array.of(0.001, 0.002, 0.003), { ids: Int32Array.of(0, 1, 0), count: 2 }, [bonferroni], { alpha: 0.05, tests: [10, 7] });
+    expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.01, 0.014, 0.03]);
+    expect(() => adjustWithinFamilies(Float64Array.of(0.1, 0.2), singleFamily(2), [bonferroni], { alpha: 0.05, tests: [1] })).toThrow(TooFewTestsError);
   });
 
   it('handles a table with no rows', () => {

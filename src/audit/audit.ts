@@ -13,7 +13,7 @@
 // Cost: O(n log n) per candidate tried (three times that when the raw
 // p-values are rounded); O(n log n log M) to fit m.
 
-import { type FamilyGrouping, adjustWithinFamilies } from '../families.js';
+import { type FamilyGrouping, adjustWithinFamilies, familySegments } from '../families.js';
 import { DEFAULT_SETTINGS, METHODS, type Method } from '../methods.js';
 import { ascendingOrder, gather } from '../procedures/sorting.js';
 import { clearlyDifferent, matchesRange } from './matching.js';
@@ -103,33 +103,22 @@ export function isFullMatch(comparison: Comparison): boolean {
 
 /** Present p-values in each family. */
 export function presentPerFamily(p: Float64Array, families: FamilyGrouping): Int32Array {
-  const counts = new Int32Array(families.count);
-  for (let row = 0; row < p.length; row++) if (!Number.isNaN(p[row])) counts[families.ids[row] as number]++;
-  return counts;
+  const { start } = familySegments(p, families);
+  return Int32Array.from({ length: families.count }, (_, f) => start[f + 1] - start[f]);
 }
 
-/** Rows of each family, present p-values only. */
-function rowsByFamily(p: Float64Array, families: FamilyGrouping): number[][] {
-  const rows: number[][] = Array.from({ length: families.count }, () => []);
-  for (let row = 0; row < p.length; row++) if (!Number.isNaN(p[row])) rows[families.ids[row] as number]?.push(row);
-  return rows;
+/** The rows of each family's present p-values. */
+function rowsByFamily(p: Float64Array, families: FamilyGrouping): Int32Array[] {
+  const { start, rowOf } = familySegments(p, families);
+  const rows = rowOf ?? Int32Array.from(p.keys());
+  return Array.from({ length: families.count }, (_, f) => rows.subarray(start[f], start[f + 1]));
 }
 
 /** The candidate's adjusted values of one reading of the p-values. */
 function adjusted(values: Float64Array, candidate: Candidate): Float64Array {
-  const { testsByFamily } = candidate;
-  if (!testsByFamily) {
-    // alpha only counts rejections, which the audit does not use.
-    return adjustWithinFamilies(values, candidate.grouping.families, [candidate.method], { alpha: 0.05, tests: candidate.tests }).adjusted[0] as Float64Array;
-  }
-  const out = new Float64Array(values.length).fill(NaN);
-  rowsByFamily(values, candidate.grouping.families).forEach((rows, f) => {
-    const family = candidate.method.adjust(Float64Array.from(rows, (row) => values[row] as number), testsByFamily[f]);
-    rows.forEach((row, k) => {
-      out[row] = family[k] as number;
-    });
-  });
-  return out;
+  // alpha only counts rejections, which the audit does not use.
+  const tests = candidate.testsByFamily ?? candidate.tests;
+  return adjustWithinFamilies(values, candidate.grouping.families, [candidate.method], { alpha: 0.05, tests }).adjusted[0] as Float64Array;
 }
 
 /** The candidate's adjusted values, with the range that rounded raw p-values leave them in. */
@@ -160,7 +149,7 @@ const LARGEST_M = 2 ** 31 - 1;
  * The number of tests m (at least the p-values present) at which the method
  * reproduces a family's claimed values, or undefined when no m does.
  */
-export function fitTests(p: Printed, claims: Printed, rows: readonly number[], method: Method): number | undefined {
+export function fitTests(p: Printed, claims: Printed, rows: Int32Array | readonly number[], method: Method): number | undefined {
   if (rows.some((row) => Number.isNaN(claims.values[row]))) return undefined;
   // Each reading sorted once; each trial m then costs linear passes of the procedure.
   const reading = (sign: number) => {
