@@ -11,7 +11,7 @@ import { constants, createGunzip, createGzip } from 'node:zlib';
 import { DataError } from '../errors.js';
 import type { OutputFile } from './atomic-file.js';
 import { peek } from './scan-input.js';
-import type { InputSource } from './source.js';
+import { type InputSource, extensionOf } from './source.js';
 
 const CHUNK_SIZE = 1 << 20;
 
@@ -26,11 +26,9 @@ export async function decompressedIfGzip(source: InputSource): Promise<InputSour
 
 /** The decompressed content of a gzip source; the delimiter hint comes from the name without .gz. */
 export function gunzipped(source: InputSource): InputSource {
-  const name = source.name.replace(/\.gz$/i, '');
-  const dot = name.lastIndexOf('.');
   return {
     name: source.name,
-    extension: dot > name.lastIndexOf('/') ? name.slice(dot + 1).toLowerCase() : '',
+    extension: extensionOf(source.name.replace(/\.gz$/i, '')),
     async *chunks() {
       const gunzip = pipeline(Readable.from(source.chunks()), createGunzip({ chunkSize: CHUNK_SIZE }), () => {});
       try {

@@ -17,11 +17,16 @@ export interface InputSource {
 
 const READ_SIZE = 4 << 20;
 
-export function fileSource(path: string): InputSource {
+/** A path's extension, lower-cased, without the dot; '' when the last path element has none. */
+export function extensionOf(path: string): string {
   const dot = path.lastIndexOf('.');
+  return dot > path.lastIndexOf('/') ? path.slice(dot + 1).toLowerCase() : '';
+}
+
+export function fileSource(path: string): InputSource {
   return {
     name: path,
-    extension: dot > path.lastIndexOf('/') ? path.slice(dot + 1).toLowerCase() : '',
+    extension: extensionOf(path),
     size: statSync(path).size,
     chunks: () => createReadStream(path, { highWaterMark: READ_SIZE }),
   };

@@ -10,7 +10,7 @@ import { fieldText } from './csv-scan.js';
 import type { TableShape } from './read-table.js';
 import { scanInput } from './scan-input.js';
 import type { InputSource } from './source.js';
-import { type OutputColumn, checkRowCount } from './write-table.js';
+import { type OutputColumn, checkRowCount, splitColumns } from './write-table.js';
 
 /** The keys of the objects: the header's names (or positions) and the new columns' names (the caller refuses repeated ones). */
 export function jsonLinesKeys(shape: TableShape, columns: readonly OutputColumn[]): string[] {
@@ -26,9 +26,7 @@ export async function writeJsonLines(
   expectedRows: number,
 ): Promise<void> {
   const keys = jsonLinesKeys(shape, columns).map((key) => JSON.stringify(key));
-  const replacing = new Map<number, OutputColumn>();
-  for (const column of columns) if (column.replaces !== undefined) replacing.set(column.replaces, column);
-  const appended = columns.filter((column) => column.replaces === undefined);
+  const { replacing, appended } = splitColumns(columns);
   // New cells are number or boolean text already; an empty one is a missing value.
   const literal = (text: string): string => (text === '' ? 'null' : text);
   let row = shape.names ? -1 : 0;

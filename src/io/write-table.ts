@@ -48,6 +48,13 @@ export interface AlignedFormat {
   readonly headings: readonly string[];
 }
 
+/** The new columns that write over existing ones, by the index they replace, and those appended, in order. */
+export function splitColumns(columns: readonly OutputColumn[]): { replacing: Map<number, OutputColumn>; appended: OutputColumn[] } {
+  const replacing = new Map<number, OutputColumn>();
+  for (const column of columns) if (column.replaces !== undefined) replacing.set(column.replaces, column);
+  return { replacing, appended: columns.filter((column) => column.replaces === undefined) };
+}
+
 export async function writeTable(
   source: InputSource,
   shape: TableShape,
@@ -56,9 +63,7 @@ export async function writeTable(
   sink: ByteSink,
   expectedRows: number,
 ): Promise<void> {
-  const replacing = new Map<number, OutputColumn>();
-  for (const column of columns) if (column.replaces !== undefined) replacing.set(column.replaces, column);
-  const appended = columns.filter((column) => column.replaces === undefined);
+  const { replacing, appended } = splitColumns(columns);
   let row = shape.names ? -1 : 0;
 
   const cellsOf = (view: RecordView, record: number): string[] => {
