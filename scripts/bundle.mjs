@@ -8,9 +8,7 @@ import { chmodSync } from 'node:fs';
 import { build } from 'esbuild';
 
 const outfile = new URL('../dist/cli/famwise.mjs', import.meta.url).pathname;
-await build({
-  entryPoints: [new URL('../dist/cli/main.js', import.meta.url).pathname],
-  outfile,
+const common = {
   bundle: true,
   platform: 'node',
   target: 'node20',
@@ -19,5 +17,8 @@ await build({
   // commander is CommonJS; its require() calls of Node's own modules need a require in an ES module.
   banner: { js: "import { createRequire as famwiseRequire } from 'node:module'; const require = famwiseRequire(import.meta.url);" },
   logLevel: 'warning',
-});
+};
+await build({ ...common, entryPoints: [new URL('../dist/cli/main.js', import.meta.url).pathname], outfile });
+// The thread that writes the second part of a large table (src/io/parallel-write.ts), beside the command.
+await build({ ...common, entryPoints: [new URL('../dist/io/write-part.js', import.meta.url).pathname], outfile: new URL('../dist/cli/write-part.mjs', import.meta.url).pathname });
 chmodSync(outfile, 0o755);

@@ -8,7 +8,7 @@
 import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
 import { normalisedWeights } from './procedures/weights.js';
-import { ascendingOrder, gather } from './procedures/sorting.js';
+import { gather, sortAscending } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 /** Family membership: ids[row] is in [0, count). */
@@ -145,8 +145,7 @@ export function adjustWithinFamilies(
     const to = start[f + 1];
     const segment = gathered.subarray(from, to);
     const m = checkedTestCount(segment, testsOf(f) ?? segment.length);
-    const order = ascendingOrder(segment);
-    const sorted = gather(segment, order);
+    const { order, sorted } = sortAscending(segment);
     const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);
     outcomes.push(
       methods.map((method, k) => {

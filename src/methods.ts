@@ -17,7 +17,7 @@ import { normalisedWeights } from './procedures/weights.js';
 import { bkySorted } from './procedures/bky.js';
 import { storeyQValuesSorted } from './procedures/storey.js';
 import { DEFAULT_PI0_SETTINGS, type Pi0Estimate, type Pi0Settings, estimatePi0 } from './estimators/pi0.js';
-import { type SortedKernel, ascendingOrder, gather, scatter } from './procedures/sorting.js';
+import { type SortedKernel, scatter, sortAscending } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 export type ErrorRate = 'FWER' | 'FDR';
@@ -189,8 +189,8 @@ export const METHODS: readonly Method[] = ENTRIES.map((entry) => ({
   ...entry,
   adjust: (p: Float64Array, m = p.length, settings = DEFAULT_SETTINGS) => {
     const tests = checkedTestCount(p, m);
-    const order = ascendingOrder(p);
-    return scatter(entry.run({ sorted: gather(p, order), m: tests }, settings).adjusted, order);
+    const { order, sorted } = sortAscending(p);
+    return scatter(entry.run({ sorted, m: tests }, settings).adjusted, order);
   },
 }));
 

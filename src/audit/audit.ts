@@ -15,7 +15,7 @@
 
 import { type FamilyGrouping, adjustWithinFamilies, familySegments } from '../families.js';
 import { DEFAULT_SETTINGS, METHODS, type Method } from '../methods.js';
-import { ascendingOrder, gather } from '../procedures/sorting.js';
+import { sortAscending } from '../procedures/sorting.js';
 import { clearlyDifferent, matchesRange } from './matching.js';
 
 /** Numbers read from a column with the precision each was printed to. */
@@ -154,8 +154,7 @@ export function fitTests(p: Printed, claims: Printed, rows: Int32Array | readonl
   // Each reading sorted once; each trial m then costs linear passes of the procedure.
   const reading = (sign: number) => {
     const values = Float64Array.from(rows, (row) => Math.min(1, Math.max(0, (p.values[row] as number) + sign * (p.halfUnits[row] as number))));
-    const order = ascendingOrder(values);
-    return { sorted: gather(values, order), order };
+    return sortAscending(values);
   };
   const [low, high] = [reading(-1), reading(1)];
   const inRowOrder = (at: { sorted: Float64Array; order: Uint32Array }, m: number): Float64Array => {

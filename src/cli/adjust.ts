@@ -36,6 +36,8 @@ import { columnName, readTable, type Table } from '../io/read-table.js';
 import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
+import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
+import { inParts, writeTableInParts } from '../io/parallel-write.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
@@ -144,16 +146,7 @@ function checkWeightsUsage(options: AdjustOptions): void {
 /** The column that shows p-values computed from statistics or -log10 p. */
 const COMPUTED_P_COLUMN = 'p_raw';
 
-/** An adjusted value as the shortest decimal that reads back to the same double. */
-function formatAdjusted(value: number, decimalComma: boolean): string {
-  if (Number.isNaN(value)) return '';
-  // Most FWER-adjusted values of a large table are capped at 1: no need to format them.
-  if (value === 1) return '1';
-  const text = String(value);
-  return decimalComma ? text.replace('.', ',') : text;
-}
-
-function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions, decimalComma: boolean): OutputColumn[] {
+function outputColumns(table: Table, methods: readonly Method[], adjusted: Float64Array[], options: AdjustOptions, decimalComma: boolean): ColumnsPlan {
   const names = table.shape.names ?? [];
   const existing = (name: string): number | undefined => {
     const index = names.indexOf(name);
@@ -168,28 +161,17 @@ function outputColumns(table: Table, methods: readonly Method[], adjusted: Float
     }
     return index;
   };
-  const { alpha } = options;
   // p-values computed from statistics or -log10 p are shown, so that each decision can be traced.
-  const computed: OutputColumn[] = table.pComputed
-    ? [{ name: COMPUTED_P_COLUMN, replaces: existing(COMPUTED_P_COLUMN), cell: (row: number) => formatAdjusted(table.p[row], decimalComma) }]
-    : [];
-  const perMethod = methods.flatMap((method, k) => {
+  const computed: ColumnPlan[] = table.pComputed ? [{ name: COMPUTED_P_COLUMN, replaces: existing(COMPUTED_P_COLUMN), kind: 'number', values: table.p }] : [];
+  const perMethod = methods.flatMap((method, k): ColumnPlan[] => {
     const values = adjusted[k];
     const { adjusted: adjustedName, rejected: rejectedName } = columnNames(method);
     return [
-      {
-        name: adjustedName,
-        replaces: existing(adjustedName),
-        cell: (row: number) => formatAdjusted(values[row], decimalComma),
-      },
-      {
-        name: rejectedName,
-        replaces: existing(rejectedName),
-        cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false'),
-      },
+      { name: adjustedName, replaces: existing(adjustedName), kind: 'number', values },
+      { name: rejectedName, replaces: existing(rejectedName), kind: 'decision', values },
     ];
   });
-  return [...computed, ...perMethod];
+  return { columns: [...computed, ...perMethod], alpha: options.alpha, decimalComma };
 }
 
 /** The table writers' formats, and JSON lines. */
@@ -288,7 +270,7 @@ function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodS
 async function writeOutputs(
   source: InputSource,
   table: Table,
-  columns: readonly OutputColumn[],
+  plan: ColumnsPlan,
   format: TableFormat,
   summary: Summary,
   targets: { table?: string; summary?: string; plot?: string },
@@ -303,8 +285,9 @@ async function writeOutputs(
   files.push(tableFile);
   const sink = new ByteSink(tableFile.stream);
   try {
-    if (format === 'jsonl') await writeJsonLines(source, table.shape, columns, sink, table.p.length);
-    else await writeTable(source, table.shape, columns, format, sink, table.p.length);
+    if (format === 'jsonl') await writeJsonLines(source, table.shape, plannedColumns(plan), sink, table.p.length);
+    else if ('delimiter' in format && table.split && inParts(source)) await writeTableInParts(source, table.shape, plan, format, sink, table.p.length, table.split);
+    else await writeTable(source, table.shape, plannedColumns(plan), format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
     if ((error as NodeJS.ErrnoException).code !== 'EPIPE' || !tableFile.direct) {
@@ -365,10 +348,10 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
   // Decimal commas in, decimal commas out; but never in comma-separated output or JSON.
   const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
-  const columns = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
-  if (format === 'jsonl') checkJsonKeys(table, columns);
+  const plan = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
+  if (format === 'jsonl') checkJsonKeys(table, plannedColumns(plan));
   const plot = (): Promise<string> => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
-  await writeOutputs(source, table, columns, format, summary, targets, plot);
+  await writeOutputs(source, table, plan, format, summary, targets, plot);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.
   for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);

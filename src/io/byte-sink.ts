@@ -65,6 +65,12 @@ export class ByteSink {
     this.size = size;
   }
 
+  /** Appends a whole block as it is, without copying it (it must not change until written). */
+  pushBlock(block: Buffer): void {
+    if (this.size > 0) this.nextBlock(0);
+    this.full.push(block);
+  }
+
   pushText(text: string): void {
     // A UTF-8 character takes at most 3 bytes per UTF-16 unit.
     if (this.size + 3 * text.length > this.block.length) this.nextBlock(3 * text.length);

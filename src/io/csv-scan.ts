@@ -32,6 +32,8 @@ export interface RecordView {
   buf: Buffer;
   /** 1-based line on which the record starts. */
   line: number;
+  /** Where buf[0] lies in the whole input, in bytes. */
+  bufOffset: number;
   fieldCount: number;
   /** Field k is buf[starts[k], ends[k]), quotes included. */
   starts: Int32Array;
@@ -80,12 +82,19 @@ export interface ScanOptions {
    * and the view's fields are not to be read.
    */
   readonly splitFields?: boolean;
+  /**
+   * For a part of an input that starts at a record other than the first: the
+   * line it starts on; a byte-order mark there is then content, not a mark.
+   */
+  readonly firstLine?: number;
 }
 
 export class RecordScanner {
   /** Line number of the next byte to scan. */
-  line = 1;
-  private atInputStart = true;
+  line: number;
+  private atInputStart: boolean;
+  /** Where the next buffer passed to scan lies in the whole input. */
+  bufOffset = 0;
   private readonly view: RecordView;
 
   /**
@@ -99,9 +108,12 @@ export class RecordScanner {
     private readonly loneCrEndsLine = false,
     private readonly options: ScanOptions = {},
   ) {
+    this.line = options.firstLine ?? 1;
+    this.atInputStart = options.firstLine === undefined;
     this.view = {
       buf: Buffer.alloc(0),
       line: 1,
+      bufOffset: 0,
       fieldCount: 0,
       starts: new Int32Array(64),
       ends: new Int32Array(64),
@@ -134,6 +146,7 @@ export class RecordScanner {
   scan(buf: Buffer, from: number, atEnd: boolean, onRecord: (view: RecordView) => void): number {
     const view = this.view;
     view.buf = buf;
+    view.bufOffset = this.bufOffset;
     const length = buf.length;
     let pos = from;
     let consumed = from;

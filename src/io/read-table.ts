@@ -64,6 +64,18 @@ const KEY_LIMIT = 1000;
 /** Only this many columns are followed as possible families. */
 const KEY_COLUMNS = 64;
 
+/**
+ * A record near the middle of a table read from a file: the second pass can
+ * write the two parts apart, in two threads (io/parallel-write.ts).
+ */
+export interface SplitPoint {
+  /** Where the record's first byte lies in the input. */
+  readonly offset: number;
+  /** Its data row (0-based, header excluded) and line. */
+  readonly row: number;
+  readonly line: number;
+}
+
 /** The layout of a table, as the writers need it. */
 export interface TableShape extends Dialect {
   /** Column names from the header, or null when there is none. */
@@ -96,6 +108,8 @@ export interface Table {
   readonly decimalComma: boolean;
   /** Things the user should know (how the header was decided, ...). */
   readonly notices: readonly Notice[];
+  /** The first data record at or past the middle of the input, when it can be read by position. */
+  readonly split?: SplitPoint;
 }
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
@@ -453,10 +467,15 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     });
   };
 
+  const middle = source.descriptor && source.size !== undefined ? source.size / 2 : Infinity;
+  let split: SplitPoint | undefined;
   await scanInput(source, { delimiter, loneCrEndsLine }, {
     record(view) {
       if (shape === undefined) {
         if (start(view)) return;
+      }
+      if (split === undefined && view.bufOffset + view.contentStart >= middle) {
+        split = { offset: view.bufOffset + view.contentStart, row: p.length, line: view.line };
       }
       readRow(view, shape as TableShape);
     },
@@ -504,5 +523,6 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     familyValues,
     decimalComma: decimalCommaSeen,
     notices,
+    ...(split ? { split } : {}),
   };
 }

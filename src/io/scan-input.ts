@@ -38,6 +38,7 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     pending = [];
     pendingSize = 0;
     const consumed = scanner.scan(block, 0, atEnd, handlers.record);
+    scanner.bufOffset += consumed;
     carry = block.subarray(consumed);
     if (handlers.afterBlock) await handlers.afterBlock();
   };

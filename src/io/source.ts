@@ -3,7 +3,7 @@
 // are simply read again; standard input and pipes are first read to their end
 // (spill.ts), gzip is decompressed on every pass (gzip.ts).
 
-import { createReadStream, statSync } from 'node:fs';
+import { closeSync, createReadStream, openSync, read, statSync } from 'node:fs';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
@@ -12,6 +12,12 @@ export interface InputSource {
   readonly extension: string;
   /** Bytes of content, when known before reading (a plain file, a spilled stream). */
   readonly size?: number;
+  /**
+   * A descriptor that reads the content by position (a plain file, a spilled
+   * stream), so that parts of it can be read apart, also by another thread;
+   * undefined when the bytes can only be read in order (gzip, memory).
+   */
+  readonly descriptor?: () => number;
   chunks(): AsyncIterable<Buffer>;
 }
 
@@ -23,12 +29,49 @@ export function extensionOf(path: string): string {
   return dot > path.lastIndexOf('/') ? path.slice(dot + 1).toLowerCase() : '';
 }
 
+/** Descriptors opened for reading by position, closed when the process exits. */
+const opened: number[] = [];
+
 export function fileSource(path: string): InputSource {
+  let fd: number | undefined;
   return {
     name: path,
     extension: extensionOf(path),
     size: statSync(path).size,
+    descriptor() {
+      if (fd === undefined) {
+        fd = openSync(path, 'r');
+        if (opened.length === 0) process.on('exit', () => opened.forEach((each) => closeSync(each)));
+        opened.push(fd);
+      }
+      return fd;
+    },
     chunks: () => createReadStream(path, { highWaterMark: READ_SIZE }),
+  };
+}
+
+/** Reads up to length bytes at a position of a descriptor, into a new buffer: the bytes read. */
+export function readAt(fd: number, length: number, position: number): Promise<Buffer> {
+  const buffer = Buffer.allocUnsafe(length);
+  return new Promise((resolve, reject) => {
+    read(fd, buffer, 0, length, position, (error, bytesRead) => (error ? reject(error) : resolve(buffer.subarray(0, bytesRead))));
+  });
+}
+
+/** Bytes [start, end) of what a descriptor reads by position, as a source of its own. */
+export function rangeSource(name: string, fd: number, start: number, end: number): InputSource {
+  return {
+    name,
+    extension: '',
+    size: end - start,
+    async *chunks() {
+      for (let position = start; position < end; ) {
+        const chunk = await readAt(fd, Math.min(READ_SIZE, end - position), position);
+        if (chunk.length === 0) return;
+        position += chunk.length;
+        yield chunk;
+      }
+    },
   };
 }
 

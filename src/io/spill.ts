@@ -35,7 +35,7 @@ function removeLeftOver(): void {
 }
 
 /** A temporary file, opened and then unlinked at once (or removed at exit where that fails). */
-async function temporaryFile(): Promise<FileHandle> {
+export async function temporaryFile(): Promise<FileHandle> {
   const path = join(tmpdir(), `famwise-${process.pid}-${randomBytes(6).toString('hex')}.spill`);
   const handle = await open(path, 'wx+', 0o600);
   openHandles.add(handle);
@@ -91,6 +91,7 @@ export async function spilledSource(stream: Readable, name: string, inMemory = I
     name,
     extension: '',
     size,
+    descriptor: () => handle.fd,
     // Read by position, so that passes (and a first look that stops early) never disturb each other.
     async *chunks() {
       for (let position = 0; ; ) {

@@ -43,6 +43,12 @@ function quotedBytes(bytes: Buffer, delimiter: string): Buffer | string {
   return needsQuotes(latin1, delimiter) ? Buffer.from(`"${latin1.replaceAll('"', '""')}"`, 'latin1') : bytes;
 }
 
+/** One part of a table, written apart from the rest. */
+export interface TablePart {
+  /** The line on which the part's first record starts, for a part after the first: it has no header. */
+  readonly firstLine?: number | undefined;
+}
+
 /** An aligned text table for reading, with these headings for the table's own columns. */
 export interface AlignedFormat {
   readonly headings: readonly string[];
@@ -62,9 +68,15 @@ export async function writeTable(
   format: OutputFormat,
   sink: ByteSink,
   expectedRows: number,
-): Promise<void> {
+  /**
+   * Set when the source is one part of the table (io/parallel-write.ts): the
+   * rows are then counted, not checked against expectedRows.
+   */
+  part?: TablePart,
+): Promise<number> {
   const { replacing, appended } = splitColumns(columns);
-  let row = shape.names ? -1 : 0;
+  const firstLine = part?.firstLine;
+  let row = shape.names && firstLine === undefined ? -1 : 0;
 
   const cellsOf = (view: RecordView, record: number): string[] => {
     const cells: string[] = [];
@@ -88,14 +100,14 @@ export async function writeTable(
     const header = [...format.headings, ...appended.map((column) => column.name)];
     sink.push(alignedTable(header, rows));
     await sink.flush(true);
-    return;
+    return row;
   }
 
   const delimiter = String.fromCharCode(format.delimiter);
   const copyFields = format.delimiter === shape.delimiter;
   // Records copied whole need only their bounds, not their fields.
   const wholeRecords = copyFields && replacing.size === 0;
-  await scanInput(source, { ...shape, splitFields: !wholeRecords }, {
+  await scanInput(source, { ...shape, splitFields: !wholeRecords, firstLine }, {
     record(view) {
       const { buf } = view;
       if (wholeRecords) {
@@ -124,8 +136,9 @@ export async function writeTable(
       sink.push(buf.subarray(from));
     },
   });
-  checkRowCount(source, row, expectedRows);
+  if (!part) checkRowCount(source, row, expectedRows);
   await sink.flush(true);
+  return row;
 }
 
 export function checkRowCount(source: InputSource, rows: number, expected: number): void {

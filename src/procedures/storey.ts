@@ -29,7 +29,7 @@
 
 import { DEFAULT_PI0_SETTINGS, type Pi0Estimate, type Pi0Settings, estimatePi0 } from '../estimators/pi0.js';
 import { benjaminiHochbergSorted } from './benjamini-hochberg.js';
-import { ascendingOrder, gather, scatter } from './sorting.js';
+import { scatter, sortAscending } from './sorting.js';
 import { checkedTestCount } from './validate.js';
 
 /**
@@ -50,8 +50,7 @@ export function storeyQValuesSorted(sorted: Float64Array, m: number, pi0: number
  */
 export function adjustStorey(p: Float64Array, m: number = p.length, settings: Pi0Settings = DEFAULT_PI0_SETTINGS): { qValues: Float64Array; pi0: Pi0Estimate } {
   const tests = checkedTestCount(p, m);
-  const order = ascendingOrder(p);
-  const sorted = gather(p, order);
+  const { order, sorted } = sortAscending(p);
   const pi0 = estimatePi0(sorted, tests, settings);
   return { qValues: scatter(storeyQValuesSorted(sorted, tests, pi0.value), order), pi0 };
 }

@@ -1,0 +1,52 @@
+// The new columns of an adjusted table, described by data alone (names,
+// kinds, the numbers), so that the same cells can be made in another
+// thread (io/parallel-write.ts) as in this one.
+
+import type { OutputColumn } from './write-table.js';
+
+export interface ColumnPlan {
+  readonly name: string;
+  /** Index of the existing column it writes over; undefined to append it. */
+  readonly replaces?: number | undefined;
+  /** number: the value itself (empty where NaN); decision: true where the value is at most alpha, false above, empty where NaN. */
+  readonly kind: 'number' | 'decision';
+  /** By data row. */
+  readonly values: Float64Array;
+}
+
+export interface ColumnsPlan {
+  readonly columns: readonly ColumnPlan[];
+  readonly alpha: number;
+  /** Numbers with a decimal comma, as the input had them. */
+  readonly decimalComma: boolean;
+}
+
+/** A number as the shortest decimal that reads back to the same double; empty for NaN. */
+export function numberText(value: number, decimalComma: boolean): string {
+  if (Number.isNaN(value)) return '';
+  // Most FWER-adjusted values of a large table are capped at 1: no need to format them.
+  if (value === 1) return '1';
+  const text = String(value);
+  return decimalComma ? text.replace('.', ',') : text;
+}
+
+export function plannedColumns(plan: ColumnsPlan): OutputColumn[] {
+  const { alpha, decimalComma } = plan;
+  return plan.columns.map(({ name, replaces, kind, values }) => {
+    if (kind === 'decision') {
+      return { name, replaces, cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false') };
+    }
+    return { name, replaces, cell: (row: number) => numberText(values[row], decimalComma) };
+  });
+}
+
+/** The plan for the data rows from `first` on (row 0 of the part is row `first` of the table). */
+export function planFrom(plan: ColumnsPlan, first: number): ColumnsPlan {
+  const parts = new Map<Float64Array, Float64Array>();
+  const part = (values: Float64Array): Float64Array => {
+    let sliced = parts.get(values);
+    if (!sliced) parts.set(values, (sliced = values.slice(first)));
+    return sliced;
+  };
+  return { ...plan, columns: plan.columns.map((column) => ({ ...column, values: part(column.values) })) };
+}

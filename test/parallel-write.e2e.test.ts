@@ -1,0 +1,113 @@
+// The second pass written in two parts by two threads (io/parallel-write.ts)
+// gives the very bytes of the one-thread pass, on tables whose middle is
+// awkward: a quoted field with a line break across it, blank lines, CRLF, a
+// byte-order-mark character opening the record where the parts meet, no
+// line break at the end, families, replaced columns, other output
+// delimiters, and standard input spilled to a temporary file. Each table is
+// run with the parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one
+// thread, through the built command line.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { bufferSource, fileSource } from '../dist/io/source.js';
+import { inParts } from '../dist/io/parallel-write.js';
+import { CLI } from './helpers/cli.js';
+import { seededRandom } from './helpers/random.js';
+
+const work = mkdtempSync(join(tmpdir(), 'famwise-parts-'));
+afterAll(() => rmSync(work, { recursive: true, force: true }));
+
+const ONE_THREAD = String(Number.MAX_SAFE_INTEGER);
+
+function run(args: string[], minimum: string, input?: Buffer): { status: number | null; stdout: Buffer; stderr: string } {
+  const result = spawnSync(process.execPath, [CLI, ...args], {
+    input: input ?? '',
+    cwd: work,
+    env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: minimum },
+    maxBuffer: 1 << 28,
+  });
+  return { status: result.status, stdout: result.stdout, stderr: result.stderr.toString() };
+}
+
+/** Runs both ways and expects the same status, bytes and messages; returns the output. */
+function sameBothWays(args: string[], input?: Buffer): Buffer {
+  const parts = run(args, '0', input);
+  const single = run(args, ONE_THREAD, input);
+  expect(parts.stderr).toBe(single.stderr);
+  expect(parts.status).toBe(single.status);
+  expect(parts.stdout.equals(single.stdout)).toBe(true);
+  return parts.stdout;
+}
+
+/** A table of `rows` rows whose lines come from `line`; the middle row is `middle`. */
+function table(header: string, rows: number, line: (i: number) => string, middle?: string): string {
+  const lines = Array.from({ length: rows }, (_, i) => (middle !== undefined && i === rows >> 1 ? middle : line(i)));
+  return header + lines.join('');
+}
+
+function write(name: string, text: string | Buffer): string {
+  writeFileSync(join(work, name), text);
+  return name;
+}
+
+const random = seededRandom(7);
+const p = (): string => (random() < 0.1 ? (random() ** 6).toPrecision(3) : random().toPrecision(6));
+
+describe('writing in two parts', () => {
+  it('is taken for a file, not for bytes in memory, and only past the size set', () => {
+    const path = join(work, write('plain.csv', table('id,p\n', 2000, (i) => `r${i},${p()}\n`)));
+    const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+    try {
+      process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
+      expect(inParts(fileSource(path))).toBe(true);
+      expect(inParts(bufferSource(Buffer.from('p\n0.1\n'), 'memory'))).toBe(false);
+      process.env.FAMWISE_PARALLEL_MIN_BYTES = ONE_THREAD;
+      expect(inParts(fileSource(path))).toBe(false);
+    } finally {
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
+    }
+  });
+
+  it('gives the bytes of one pass on a plain table with families and CRLF', () => {
+    const name = write('crlf.csv', table('gene,chrom,p_value\r\n', 5000, (i) => `g${i},${1 + (i % 5)},${p()}\r\n`));
+    const out = sameBothWays(['adjust', name, '--family', 'chrom', '--methods', 'bh,holm,hommel', '-q']);
+    expect(out.toString().split('\r\n')).toHaveLength(5002);
+  });
+
+  it('keeps a quoted field with line breaks at the middle, blank lines, and no final line break', () => {
+    const text = table('id,note,p\n', 4001, (i) => `r${i},"n ${i}",${p()}\n${i % 7 === 0 ? '\n\r\n' : ''}`, `mid,"line one\n\nline three, with ""quotes""",0.001\n\n\n`);
+    const name = write('quoted.csv', text.slice(0, -1));
+    const out = sameBothWays(['adjust', name, '-q']);
+    expect(out.toString()).toContain('mid,"line one\n\nline three, with ""quotes""",0.001,');
+    expect(out.toString().endsWith('\n')).toBe(false);
+  });
+
+  it('keeps a byte-order-mark character that opens the record where the parts meet', () => {
+    const rows = Array.from({ length: 3000 }, (_, i) => `r${i},${p()}\n`);
+    const head = 'id,p\n';
+    // Every record from the middle on starts with U+FEFF, so the one where the parts meet does.
+    const text = head + rows.map((row, i) => (i >= 1400 ? `\ufeff${row}` : row)).join('');
+    const out = sameBothWays(['adjust', write('bom.csv', `\ufeff${text}`), '-q']);
+    expect(out.subarray(0, 3).equals(Buffer.from([0xef, 0xbb, 0xbf]))).toBe(true);
+    expect(out.toString().split('\n').filter((line) => line.startsWith('\ufeffr')).length).toBe(1600);
+  });
+
+  it('gives the bytes of one pass when converting the delimiter, replacing columns, or without a header', () => {
+    const name = write('replace.tsv', table('id\tp\tadj_bh\n', 3000, (i) => `r${i}\t${p().replace('.', ',')}\told\n`));
+    sameBothWays(['adjust', name, '--replace', '-q']);
+    sameBothWays(['adjust', name, '--replace', '--format', 'csv', '-q']);
+    const bare = write('bare.csv', table('', 3000, (i) => `${i},${p()}\n`));
+    sameBothWays(['adjust', bare, '--no-header', '--p-column', '2', '--methods', 'by,storey', '-q']);
+  });
+
+  it('gives the bytes of one pass from standard input spilled to a temporary file', () => {
+    // Past the 32 MB kept in memory, standard input goes to a file that can be read by position.
+    const input = Buffer.from(table('id,chrom,p\n', 1_400_000, (i) => `variant${i},${1 + (i % 22)},${p()}\n`));
+    expect(input.length).toBeGreaterThan(32 << 20);
+    const out = sameBothWays(['adjust', '--family', 'chrom', '-q'], input);
+    expect(out.length).toBeGreaterThan(input.length);
+  });
+});
