@@ -19,6 +19,6 @@ const common = {
   logLevel: 'warning',
 };
 await build({ ...common, entryPoints: [new URL('../dist/cli/main.js', import.meta.url).pathname], outfile });
-// The thread that writes the second part of a large table (src/io/parallel-write.ts), beside the command.
-await build({ ...common, entryPoints: [new URL('../dist/io/write-part.js', import.meta.url).pathname], outfile: new URL('../dist/cli/write-part.mjs', import.meta.url).pathname });
+// The worker thread that reads and writes the second part of a large table (src/io/parts.ts), beside the command.
+await build({ ...common, entryPoints: [new URL('../dist/io/part-worker.js', import.meta.url).pathname], outfile: new URL('../dist/cli/part-worker.mjs', import.meta.url).pathname });
 chmodSync(outfile, 0o755);

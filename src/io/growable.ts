@@ -29,11 +29,15 @@ export class Growable<T extends NumberArray> {
     this.length++;
   }
 
-  /** The values pushed, in one array of exactly length (a copy, so later pushes do not show). */
-  toArray(): T {
-    const out = this.allocate(this.length);
+  /**
+   * The values pushed, in one array of exactly length (a copy, so later
+   * pushes do not show), followed by those of `then` when given.
+   */
+  toArray(then?: NumberArray): T {
+    const out = this.allocate(this.length + (then?.length ?? 0));
     this.full.forEach((block, k) => out.set(block, k * BLOCK));
     out.set(this.block.subarray(0, this.used), this.full.length * BLOCK);
+    if (then) out.set(then, this.length);
     return out;
   }
 }

@@ -10,8 +10,10 @@ import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
+import { readSync } from 'node:fs';
+import { type RunningPart, inParts, startPart } from './parts.js';
 import { peek, scanInput } from './scan-input.js';
-import type { InputSource } from './source.js';
+import { type InputSource, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
 import { CellRefusal, type ValueConverter, valueConverter } from './value-converter.js';
 
@@ -42,6 +44,12 @@ export interface ReadOptions {
   readonly reading?: ValueReading | undefined;
   /** Read an upper bound ("<2e-16") as its value instead of refusing it. */
   readonly boundsAsValues?: boolean | undefined;
+  /**
+   * The table's layout, when it is known before reading: the source is then
+   * a later part of a table (read in a worker thread, parts.ts), every record
+   * is data, and the delimiter and header are not looked for.
+   */
+  readonly shape?: TableShape | undefined;
 }
 
 /** Adjusted p-values a table claims, with the precision each was printed to. */
@@ -286,10 +294,69 @@ function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number,
 
 /** Reads the p-values and families of a table (the first pass). */
 export async function readTable(source: InputSource, options: ReadOptions): Promise<Table> {
-  const head = await peek(source, 1 << 16);
-  refuseUnreadable(head, source.name);
-  const delimiter = options.delimiter ?? sniffDelimiter(head, source.extension);
-  const loneCrEndsLine = sniffLoneCr(head);
+  return (await readRecords(source, options)).table;
+}
+
+/** What a worker thread reads of a later part of a table (parts.ts), by data row of the part. */
+export interface ReadPart {
+  readonly p: Float64Array;
+  readonly weights?: Float64Array | undefined;
+  /** Each row's family, an index into familyKeys; undefined without family columns. */
+  readonly familyIds?: Int32Array | undefined;
+  readonly familyKeys: readonly string[];
+  readonly decimalComma: boolean;
+}
+
+/**
+ * Reads a later part of a table whose layout is known (options.shape),
+ * starting on line firstLine. A row refused, or a value to remark on,
+ * rejects: the main thread then reads the part itself, so that what it
+ * says is what one thread would say.
+ */
+export async function readTablePart(source: InputSource, options: ReadOptions & { readonly shape: TableShape }, firstLine: number): Promise<ReadPart> {
+  const { table, familyKeys } = await readRecords(source, options, firstLine);
+  if (table.notices.length > 0) throw new Error(`${source.name}: the part has values to remark on`);
+  return {
+    p: table.p,
+    weights: table.weights,
+    familyIds: table.familyColumns.length > 0 ? table.families.ids : undefined,
+    familyKeys,
+    decimalComma: table.decimalComma,
+  };
+}
+
+/** Searched past the middle of the input for a line break, to split it there. */
+const SPLIT_WINDOW = 1 << 20;
+
+/** The position after the first line break at or past the middle of a source read by position; undefined if none is near. */
+function lineStartPastMiddle(source: InputSource): number | undefined {
+  const size = source.size as number;
+  const middle = Math.floor(size / 2);
+  const window = Buffer.allocUnsafe(Math.min(SPLIT_WINDOW, size - middle));
+  const got = readSync((source.descriptor as () => number)(), window, 0, window.length, middle);
+  const lineFeed = window.subarray(0, got).indexOf(0x0a);
+  return lineFeed < 0 || middle + lineFeed + 1 >= size ? undefined : middle + lineFeed + 1;
+}
+
+/** A source read by position, in chunks that end at `at` (so that its reading can stop there). */
+function endingAt(source: InputSource, at: number): InputSource {
+  const fd = (source.descriptor as () => number)();
+  return {
+    ...source,
+    async *chunks() {
+      yield* rangeSource(source.name, fd, 0, at).chunks();
+      yield* rangeSource(source.name, fd, at, source.size as number).chunks();
+    },
+  };
+}
+
+/** The table, and the key of each family (the bytes of its values), in the order of its index. */
+async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[] }> {
+  const known = options.shape;
+  const head = known ? undefined : await peek(source, 1 << 16);
+  if (head) refuseUnreadable(head, source.name);
+  const delimiter = known?.delimiter ?? options.delimiter ?? sniffDelimiter(head as Buffer, source.extension);
+  const loneCrEndsLine = known?.loneCrEndsLine ?? sniffLoneCr(head as Buffer);
   // In a table not separated by commas, "0,05" can only be a decimal comma.
   const decimalCommaAllowed = delimiter !== COMMA;
   let decimalCommaSeen = false;
@@ -326,7 +393,13 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       notices.push({ id: 'header-guessed', text: 'the first line holds only numbers, so it is read as data, not as a header (say --header if it is one)' });
     }
     const names = header ? Array.from({ length: view.fieldCount }, (_, k) => fieldText(view, k)) : null;
-    shape = { delimiter, loneCrEndsLine, names, columnCount: view.fieldCount };
+    useShape({ delimiter, loneCrEndsLine, names, columnCount: view.fieldCount });
+    return header;
+  };
+
+  /** Finds the columns asked for in a table of this layout. */
+  const useShape = (known: TableShape): void => {
+    shape = known;
     if (options.reading === undefined) {
       pColumn = options.pColumn === undefined ? findPColumn(shape) : resolveColumn(shape, options.pColumn, '--p-column');
     } else {
@@ -346,12 +419,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
       }
     }
     if (options.keyColumns) {
-      keyTrackers = Array.from({ length: view.fieldCount }, (_, column) => column)
+      keyTrackers = Array.from({ length: shape.columnCount }, (_, column) => column)
         .filter((column) => column !== pColumn && column !== claimedColumn)
         .slice(0, KEY_COLUMNS)
         .map((column) => ({ column, index: new Map<string, number>(), ids: new Growable((size) => new Int32Array(size)) }));
     }
-    return header;
   };
 
   // A refused row does not stop the reading: the error names the first and counts the rest, so that one run shows how much is wrong.
@@ -467,19 +539,67 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     });
   };
 
-  const middle = source.descriptor && source.size !== undefined ? source.size / 2 : Infinity;
+  /** A part read by a worker, to follow the rows read here; its families are matched to these by their keys. */
+  let secondPart: ReadPart | undefined;
+  const addPart = (part: ReadPart): void => {
+    secondPart = part;
+    if (part.familyIds) {
+      const ids = part.familyKeys.map((key) => {
+        let id = familyIndex.get(key);
+        if (id === undefined) {
+          id = familyValues.length;
+          familyIndex.set(key, id);
+          const bytes = familyColumns.length === 1 ? [key] : (JSON.parse(key) as string[]);
+          familyValues.push(bytes.map(shownText));
+        }
+        return id;
+      });
+      const own = part.familyIds;
+      for (let i = 0; i < own.length; i++) own[i] = ids[own[i]] as number;
+    }
+    decimalCommaSeen ||= part.decimalComma;
+  };
+
+  if (known) useShape(known);
+  const middle = source.descriptor && source.size !== undefined && firstLine === undefined ? source.size / 2 : Infinity;
   let split: SplitPoint | undefined;
-  await scanInput(source, { delimiter, loneCrEndsLine }, {
-    record(view) {
-      if (shape === undefined) {
-        if (start(view)) return;
-      }
-      if (split === undefined && view.bufOffset + view.contentStart >= middle) {
-        split = { offset: view.bufOffset + view.contentStart, row: p.length, line: view.line };
-      }
-      readRow(view, shape as TableShape);
-    },
-  });
+  // The second half is read by a worker thread (parts.ts) when the table is large, read from a
+  // file, and only p-values, weights and families are wanted; this thread stops where it starts.
+  const half = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined && inParts(source) ? lineStartPastMiddle(source) : undefined;
+  let second: RunningPart<ReadPart> | undefined;
+  const startSecondHalf = (at: number): void => {
+    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: source.size as number, line: 1, options: { ...options, shape: shape as TableShape } });
+  };
+  /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
+  const takeSecondHalf = async (at: number, line: number): Promise<boolean> => {
+    let part: ReadPart;
+    try {
+      part = await (second as RunningPart<ReadPart>).result;
+    } catch {
+      return false;
+    }
+    split ??= { offset: at, row: p.length, line };
+    addPart(part);
+    return true;
+  };
+  try {
+    await scanInput(half === undefined ? source : endingAt(source, half), { delimiter, loneCrEndsLine, firstLine }, {
+      record(view) {
+        if (shape === undefined) {
+          const header = start(view);
+          if (half !== undefined) startSecondHalf(half);
+          if (header) return;
+        }
+        if (split === undefined && view.bufOffset + view.contentStart >= middle) {
+          split = { offset: view.bufOffset + view.contentStart, row: p.length, line: view.line };
+        }
+        readRow(view, shape as TableShape);
+      },
+      ...(half === undefined ? {} : { pause: { at: half, resume: async (line: number) => !(second && (await takeSecondHalf(half, line))) } }),
+    });
+  } finally {
+    await second?.stop();
+  }
 
   if (shape === undefined) {
     throw new DataError(`${source.name}: the input is empty: expected a table with a header line and one row per test`);
@@ -502,12 +622,13 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
     notices.push({ id: 'bounds-read', text: `${bound.first} is an upper bound, read as its value${more(bound.count)} (--bounds-as-values), so the adjusted values in its family are upper bounds of the exact ones (conservative)` });
   }
   if (familyColumns.length === 0) familyValues.push([]);
-  return {
+  const rowCount = p.length + (secondPart?.p.length ?? 0);
+  const table: Table = {
     shape,
     pColumn,
     familyColumns,
-    p: p.toArray(),
-    ...(weightsColumn >= 0 ? { weightsColumn, weights: weights.toArray() } : {}),
+    p: p.toArray(secondPart?.p),
+    ...(weightsColumn >= 0 ? { weightsColumn, weights: weights.toArray(secondPart?.weights) } : {}),
     ...(claimedColumn >= 0 ? { claimed: { column: claimedColumn, values: claimedValues.toArray(), halfUnits: claimedHalfUnits.toArray() } } : {}),
     ...(options.lineNumbers ? { lines: lines.toArray() } : {}),
     ...(options.pPrecision ? { pHalfUnits: pHalfUnits.toArray() } : {}),
@@ -519,10 +640,11 @@ export async function readTable(source: InputSource, options: ReadOptions): Prom
         }
       : {}),
     pComputed: options.reading !== undefined,
-    families: familyColumns.length === 0 ? singleFamily(p.length) : { ids: familyIds.toArray(), count: familyValues.length },
+    families: familyColumns.length === 0 ? singleFamily(rowCount) : { ids: familyIds.toArray(secondPart?.familyIds), count: familyValues.length },
     familyValues,
     decimalComma: decimalCommaSeen,
     notices,
     ...(split ? { split } : {}),
   };
+  return { table, familyKeys: [...familyIndex.keys()] };
 }

@@ -14,6 +14,12 @@ export interface ScanHandlers {
   afterBlock?(): Promise<void>;
   /** The bytes after the last record (trailing blank lines), once at the end. */
   trailing?(buf: Buffer, from: number): void;
+  /**
+   * Once the input up to `at` (where a chunk of the source ends) is scanned,
+   * and a record ends there, resume is asked whether to go on; false ends
+   * the scan there. `line` is the line the next record would start on.
+   */
+  readonly pause?: { readonly at: number; resume(line: number): Promise<boolean> };
 }
 
 /** The first bytes of a source, at least `want` of them unless it is shorter. */
@@ -42,9 +48,16 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     carry = block.subarray(consumed);
     if (handlers.afterBlock) await handlers.afterBlock();
   };
+  let fed = 0;
   for await (const chunk of source.chunks()) {
     pending.push(chunk);
     pendingSize += chunk.length;
+    fed += chunk.length;
+    if (handlers.pause && fed === handlers.pause.at) {
+      await scanBlock(false);
+      if (carry.length === 0 && !(await handlers.pause.resume(scanner.line))) return;
+      continue;
+    }
     // A record longer than a block (or a quote never closed) is rescanned
     // only when the new input is as large as the carry, which keeps the
     // total work linear rather than quadratic.

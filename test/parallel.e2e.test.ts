@@ -1,18 +1,20 @@
-// The second pass written in two parts by two threads (io/parallel-write.ts)
-// gives the very bytes of the one-thread pass, on tables whose middle is
-// awkward: a quoted field with a line break across it, blank lines, CRLF, a
-// byte-order-mark character opening the record where the parts meet, no
-// line break at the end, families, replaced columns, other output
-// delimiters, and standard input spilled to a temporary file. Each table is
-// run with the parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one
-// thread, through the built command line.
+// Both passes done in two parts by two threads (io/parts.ts: the second half
+// read and written by a worker) give the very bytes and messages of one
+// thread, on tables whose middle is awkward: a quoted field with line breaks
+// across it, blank lines, CRLF, a byte-order-mark character opening the
+// record where the parts meet, no line break at the end, families first seen
+// in the second half, weights, decimal commas, statistics, replaced columns,
+// other output delimiters, refused rows and remarks in the second half, and
+// standard input spilled to a temporary file. Each table is run with the
+// parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one thread, through
+// the built command line.
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { bufferSource, fileSource } from '../dist/io/source.js';
-import { inParts } from '../dist/io/parallel-write.js';
+import { inParts } from '../dist/io/parts.js';
 import { CLI } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
 
@@ -109,5 +111,33 @@ describe('writing in two parts', () => {
     expect(input.length).toBeGreaterThan(32 << 20);
     const out = sameBothWays(['adjust', '--family', 'chrom', '-q'], input);
     expect(out.length).toBeGreaterThan(input.length);
+  });
+
+  it('gives the summary of one thread with families first seen in the second half, and weights', () => {
+    const name = write('families.csv', table('id,chrom,w,p\n', 6000, (i) => `r${i},${i < 3000 ? 1 + (i % 3) : 1 + (i % 7)},${1 + (i % 4)},${p()}\n`));
+    const out = sameBothWays(['adjust', name, '--family', 'chrom', '--methods', 'bh,holm', '--weights', 'w']);
+    expect(out.toString()).toContain('r5999,');
+  });
+
+  it('says what one thread says of refused rows and remarks in the second half, with their lines', () => {
+    const refused = write('refused.csv', table('id,p\n', 4000, (i) => `r${i},${i === 3500 ? 'oops' : i === 3600 ? '1.5' : p()}\n`));
+    const parts = run(['adjust', refused, '-q'], '0');
+    expect(parts.status).toBe(1);
+    expect(parts.stderr).toMatch(/refused\.csv:3502: .*"oops"/);
+    sameBothWays(['adjust', refused, '-q']);
+    sameBothWays(['adjust', write('remarks.csv', table('id,p\n', 4000, (i) => `r${i},${i === 3900 ? '1e-400' : p()}\n`))]);
+    sameBothWays(['adjust', write('commas.tsv', table('id\tp\n', 4000, (i) => `r${i}\t${i > 3000 ? p().replace('.', ',') : p()}\n`)), '-q']);
+  });
+
+  it('reads on in one thread when a quoted field spans the middle of the input', () => {
+    const long = Array.from({ length: 3000 }, (_, i) => `a line, ${i}, with "" quotes`).join('\n');
+    const text = table('id,note,p\n', 2001, (i) => `r${i},plain,${p()}\n`, `long,"${long}",0.002\n`);
+    const out = sameBothWays(['adjust', write('spanning.csv', text), '-q']);
+    expect(out.toString().split('\n').length).toBe(text.split('\n').length);
+  });
+
+  it('gives the p-values of one thread when they are computed from statistics', () => {
+    const name = write('z.csv', table('id,z\n', 5000, (i) => `r${i},${((random() - 0.5) * 8).toFixed(4)}\n`));
+    sameBothWays(['adjust', name, '--statistic', 'z', '--statistic-column', 'z', '-q']);
   });
 });
