@@ -7,6 +7,7 @@
 // from the next flush.
 
 import type { Writable } from 'node:stream';
+import { LONGEST_NUMBER, writeNumber } from './number-text.js';
 
 const BLOCK_SIZE = 1 << 20;
 /** Bytes left queued in the stream before waiting for it to drain. */
@@ -69,6 +70,13 @@ export class ByteSink {
   pushBlock(block: Buffer): void {
     if (this.size > 0) this.nextBlock(0);
     this.full.push(block);
+  }
+
+  /** Appends a delimiter byte and then a number as String() writes it (number-text.ts). */
+  pushNumberCell(delimiter: number, value: number, decimalComma: boolean): void {
+    if (this.size + 1 + LONGEST_NUMBER > this.block.length) this.nextBlock(1 + LONGEST_NUMBER);
+    this.block[this.size] = delimiter;
+    this.size = writeNumber(value, this.block, this.size + 1, decimalComma);
   }
 
   pushText(text: string): void {

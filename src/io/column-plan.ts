@@ -36,7 +36,7 @@ export function plannedColumns(plan: ColumnsPlan): OutputColumn[] {
     if (kind === 'decision') {
       return { name, replaces, cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false') };
     }
-    return { name, replaces, cell: (row: number) => numberText(values[row], decimalComma) };
+    return { name, replaces, cell: (row: number) => numberText(values[row] as number, decimalComma), numbers: { values, decimalComma } };
   });
 }
 

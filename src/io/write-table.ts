@@ -6,6 +6,7 @@
 import { DataError } from '../errors.js';
 import { alignedTable } from '../text-table.js';
 import type { ByteSink } from './byte-sink.js';
+import { COMMA } from './dialect.js';
 import { type RecordView, fieldBytes, fieldText } from './csv-scan.js';
 import type { TableShape } from './read-table.js';
 import { scanInput } from './scan-input.js';
@@ -21,6 +22,12 @@ export interface OutputColumn {
   cell(row: number): string;
   /** Index of the existing column it replaces; undefined to append it. */
   readonly replaces?: number | undefined;
+  /**
+   * Set for a column of numbers, whose cell(row) is values[row] as String()
+   * writes it (empty for NaN), with a decimal comma if decimalComma: the
+   * writer then writes the bytes itself (io/number-text.ts), which is faster.
+   */
+  readonly numbers?: { readonly values: Float64Array; readonly decimalComma: boolean } | undefined;
 }
 
 function needsQuotes(text: string, delimiter: string): boolean {
@@ -123,6 +130,12 @@ export async function writeTable(
         }
       }
       for (const column of appended) {
+        const numbers = column.numbers;
+        // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
+        if (numbers && row >= 0 && !(numbers.decimalComma && format.delimiter === COMMA)) {
+          sink.pushNumberCell(format.delimiter, numbers.values[row] as number, numbers.decimalComma);
+          continue;
+        }
         const text = row < 0 ? column.name : column.cell(row);
         if (sink.pushPlainCell(format.delimiter, text)) continue;
         sink.pushText(delimiter);

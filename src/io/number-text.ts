@@ -1,0 +1,154 @@
+// Numbers written as text: the shortest decimal that reads back to the same
+// double, exactly as JavaScript's String(number) writes it (ECMA-262,
+// Number::toString: the fewest digits; of those, the value closest to the
+// number; of two as close, the even one).
+//
+// Writing the new columns of a large table is mostly formatting numbers, and
+// String() costs a few hundred nanoseconds a number here. writeNumber
+// writes the bytes itself for the common case, a number between 1e-6 and 1
+// (an adjusted p-value), in a few dozen, and hands every other number to
+// String(). With v = f 2^e (f an integer of 53 bits) in [10^(n-1), 10^n),
+// for d = 15, 16, 17 digits in turn:
+//
+//   S = v 10^q, q = d - n, is computed exactly as the sum of two doubles
+//   (Dekker's product; 10^q is an exact double for q up to 22). Its
+//   nearest integer N (ties to even) is the nearest d-digit decimal to v,
+//   scaled. N reads back as v exactly when |S - N| is below half a unit in
+//   the last place of v, scaled (2^(e-1) 10^q, exact). (It is never equal:
+//   a point halfway between two doubles below 1 has at least 54 decimals,
+//   N 10^-q at most 22.) S - N and that bound are multiples of 2^(e+q-1)
+//   below 2 (below 9 for 17 digits, where S - N is Dekker's error term
+//   itself), so both are exact doubles and the comparison is exact.
+//
+//   At most one 15-digit decimal reads back as v (they lie further apart
+//   than v's rounding interval is wide), so when N does at d = 15, N less
+//   its trailing zeros is the shortest. At d = 16 several may, and the
+//   nearest is the one String() takes; at d = 17 the nearest always does.
+//   A power of two (f = 2^52) has a lopsided rounding interval (half as
+//   wide below), which this test does not model: it goes to String().
+//
+// test/number-text.test.ts compares writeNumber with String() on millions
+// of numbers of every kind; scripts/check-number-text.mjs on many more.
+
+/** 2^27 + 1: splits a double into two halves whose products are exact (Veltkamp). */
+const SPLITTER = 134217729;
+/** The largest double below 1e-6 is written by String() as 9.99...e-7: the fast path starts above 1e-6. */
+const SMALLEST = 1e-6;
+/** POWERS[k] = 10^k, exact as doubles for k up to 22; with each one's Veltkamp halves. */
+const POWERS = Float64Array.from({ length: 23 }, (_, k) => 10 ** k);
+const POWER_HIGH = POWERS.map((power) => {
+  const c = SPLITTER * power;
+  return c - (c - power);
+});
+const POWER_LOW = POWERS.map((power, k) => power - (POWER_HIGH[k] as number));
+/** Decade bounds 10^0 ... 10^-5 as doubles; each below 1 is above the real power of ten, so v >= bound is exact. */
+const DECADES = Float64Array.of(1, 1e-1, 1e-2, 1e-3, 1e-4, 1e-5);
+
+/** HALF_UNITS[E - 1000] = 2^(E - 1076): half a unit in the last place of a double with exponent field E, for E up to 1022 (below 1). */
+const HALF_UNITS = Float64Array.from({ length: 23 }, (_, k) => 2 ** (k + 1000 - 1076));
+
+const DOT = 0x2e;
+const COMMA = 0x2c;
+const ZERO = 0x30;
+/** Bytes a number's text can take: "-1.2345678901234567e-308" is 24. */
+export const LONGEST_NUMBER = 25;
+
+const word = new Float64Array(1);
+const wordBits = new Uint32Array(word.buffer);
+
+/**
+ * Writes v as String(v) writes it (with a decimal comma if asked) into
+ * bytes at `at`, which must have room for LONGEST_NUMBER bytes; NaN is
+ * written as nothing. Returns where the text ends.
+ */
+export function writeNumber(v: number, bytes: Uint8Array, at: number, decimalComma: boolean): number {
+  if (v > SMALLEST && v < 1) {
+    const end = writeFraction(v, bytes, at, decimalComma ? COMMA : DOT);
+    if (end >= 0) return end;
+  }
+  if (v === 1) {
+    bytes[at] = 0x31;
+    return at + 1;
+  }
+  if (v !== v) return at;
+  const text = String(v);
+  for (let i = 0; i < text.length; i++) {
+    const code = text.charCodeAt(i);
+    bytes[at + i] = decimalComma && code === DOT ? COMMA : code;
+  }
+  return at + text.length;
+}
+
+/** The fast path for 1e-6 < v < 1; -1 when it cannot decide. */
+function writeFraction(v: number, bytes: Uint8Array, at: number, point: number): number {
+  word[0] = v;
+  const lowBits = wordBits[0] as number;
+  const highBits = wordBits[1] as number;
+  // A power of two has a lopsided rounding interval: left to String().
+  if (lowBits === 0 && (highBits & 0xfffff) === 0) return -1;
+  // Half a unit in the last place: 2^(e-1), e = exponent - 1075 (a table: Math.pow is slow).
+  const half = HALF_UNITS[((highBits >>> 20) & 0x7ff) - 1000] as number;
+  // v lies in [10^(n-1), 10^n), n = 1 - below.
+  let below = 1;
+  while (below < 6 && v < (DECADES[below] as number)) below++;
+  // Veltkamp halves of v, for Dekker's exact product.
+  const c = SPLITTER * v;
+  const vHigh = c - (c - v);
+  const vLow = v - vHigh;
+  for (let digits = 15; digits <= 17; digits++) {
+    const q = digits + below - 1;
+    const power = POWERS[q] as number;
+    const high = POWER_HIGH[q] as number;
+    const low = POWER_LOW[q] as number;
+    const product = v * power;
+    const error = vHigh * high - product + vHigh * low + vLow * high + vLow * low;
+    // S = base + x exactly, x below 2 (or, from 2^53 on, where product is an integer, x = error).
+    const base = Math.floor(product);
+    const x = product - base + error;
+    let k = Math.floor(x);
+    const over = x - k;
+    if (over > 0.5 || (over === 0.5 && (k & 1) !== 0)) k++;
+    if (!(Math.abs(x - k) < half * power)) continue;
+    return writeDigits(base, k, digits, below - 1, bytes, at, point, digits === 15);
+  }
+  return -1;
+}
+
+/**
+ * Writes "0", the point, `zeros` zeros and the `digits` digits of base + k
+ * (base an integer below 10^17, k a small integer), less its trailing zeros
+ * when trim; -1 if base + k has more digits (it rounded up to a power of ten).
+ */
+function writeDigits(base: number, k: number, digits: number, zeros: number, bytes: Uint8Array, at: number, point: number, trim: boolean): number {
+  // base + k in two parts that int32 arithmetic can take: upper 10^8 + lower.
+  let upper = Math.floor(base / 1e8);
+  let lower = base - upper * 1e8 + k;
+  while (lower < 0) {
+    upper--;
+    lower += 1e8;
+  }
+  while (lower >= 1e8) {
+    upper++;
+    lower -= 1e8;
+  }
+  if (upper >= (POWERS[digits - 8] as number)) return -1;
+  bytes[at++] = ZERO;
+  bytes[at++] = point;
+  for (; zeros > 0; zeros--) bytes[at++] = ZERO;
+  let rest = lower | 0;
+  let top = upper | 0;
+  const end = at + digits;
+  for (let pos = end - 1; pos >= end - 8; pos--) {
+    const tenth = (rest / 10) | 0;
+    bytes[pos] = ZERO + rest - 10 * tenth;
+    rest = tenth;
+  }
+  for (let pos = end - 9; pos >= at; pos--) {
+    const tenth = (top / 10) | 0;
+    bytes[pos] = ZERO + top - 10 * tenth;
+    top = tenth;
+  }
+  let last = end;
+  if (trim) while (bytes[last - 1] === ZERO) last--;
+  return last;
+}
