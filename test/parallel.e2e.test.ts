@@ -136,6 +136,14 @@ describe('writing in two parts', () => {
     expect(out.toString().split('\n').length).toBe(text.split('\n').length);
   });
 
+  it('splits the writing at the right byte when this thread read the whole table in many chunks', () => {
+    // A value to remark on in the second half makes this thread read it too (the worker's reading is
+    // set aside), so the middle record is found by offsets kept across chunks of 4 MB.
+    const text = table('id,chrom,p\n', 400_000, (i) => `variant${i},${1 + (i % 22)},${i === 300_000 ? '1e-400' : p()}\n`);
+    expect(text.length).toBeGreaterThan(2 * (4 << 20));
+    sameBothWays(['adjust', write('chunks.csv', text), '--family', 'chrom']);
+  });
+
   it('gives the p-values of one thread when they are computed from statistics', () => {
     const name = write('z.csv', table('id,z\n', 5000, (i) => `r${i},${((random() - 0.5) * 8).toFixed(4)}\n`));
     sameBothWays(['adjust', name, '--statistic', 'z', '--statistic-column', 'z', '-q']);

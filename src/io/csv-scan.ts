@@ -93,7 +93,7 @@ export class RecordScanner {
   /** Line number of the next byte to scan. */
   line: number;
   private atInputStart: boolean;
-  /** Where the next buffer passed to scan lies in the whole input. */
+  /** Where the buffer passed to scan lies in the whole input (set by the caller before each scan). */
   bufOffset = 0;
   private readonly view: RecordView;
 

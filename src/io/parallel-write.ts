@@ -71,7 +71,8 @@ export async function writeTableInParts(
     }
     await sink.flush(true);
   } finally {
-    await second.stop();
-    await temporary.close();
+    // A worker still writing keeps its temporary file (unlinked; closed at exit): closing it
+    // here could hand its descriptor to another file while the worker still writes to it.
+    if (!second.stop()) await temporary.close();
   }
 }

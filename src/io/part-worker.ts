@@ -1,21 +1,39 @@
-// The worker thread of io/parts.ts: reads or writes one part of a table, and
-// posts what it made (transferring its arrays) or its error.
+// The worker thread of io/parts.ts: for each job it is sent, reads or writes
+// one part of a table, and posts what it made (transferring its arrays) or
+// its error.
 
 import { createWriteStream } from 'node:fs';
-import { parentPort, workerData } from 'node:worker_threads';
+import { parentPort } from 'node:worker_threads';
 import { DataError } from '../errors.js';
 import { ByteSink } from './byte-sink.js';
 import { plannedColumns } from './column-plan.js';
 import type { PartJob, PartOutcome, ReadPartJob, WritePartJob } from './parts.js';
 import { type ReadPart, readTablePart } from './read-table.js';
-import { rangeSource } from './source.js';
+import { type InputSource, rangeSource } from './source.js';
 import { writeTable } from './write-table.js';
 
+/** Jobs given up by the main thread: stopped at their next read. */
+const cancelled = new Set<number>();
+
+/** The part's bytes, unless the job is given up. */
+function partSource(job: PartJob, id: number): InputSource {
+  const source = rangeSource(job.name, job.fd, job.start, job.end);
+  return {
+    ...source,
+    async *chunks() {
+      for await (const chunk of source.chunks()) {
+        if (cancelled.has(id)) throw new Error('given up');
+        yield chunk;
+      }
+    },
+  };
+}
+
 /** Writes the part into the temporary file: the bytes written and the rows found. */
-async function writePart(job: WritePartJob): Promise<{ written: number; rows: number }> {
+async function writePart(job: WritePartJob, id: number): Promise<{ written: number; rows: number }> {
   const stream = createWriteStream('', { fd: job.outFd, autoClose: false });
   const sink = new ByteSink(stream);
-  const rows = await writeTable(rangeSource(job.name, job.fd, job.start, job.end), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
+  const rows = await writeTable(partSource(job, id), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
   await new Promise<void>((resolve, reject) => {
     stream.once('error', reject);
     stream.end(resolve);
@@ -23,8 +41,8 @@ async function writePart(job: WritePartJob): Promise<{ written: number; rows: nu
   return { written: sink.written, rows };
 }
 
-function readPart(job: ReadPartJob): Promise<ReadPart> {
-  return readTablePart(rangeSource(job.name, job.fd, job.start, job.end), job.options, job.line);
+function readPart(job: ReadPartJob, id: number): Promise<ReadPart> {
+  return readTablePart(partSource(job, id), job.options, job.line);
 }
 
 /** The buffers of a read part's arrays, moved rather than copied to the main thread. */
@@ -34,13 +52,19 @@ function buffersOf(done: unknown): ArrayBuffer[] {
   return [part.p, part.weights, part.familyIds].flatMap((array) => (array ? [array.buffer as ArrayBuffer] : []));
 }
 
-const job = workerData as PartJob;
-const work: Promise<unknown> = job.kind === 'write' ? writePart(job) : readPart(job);
-work.then(
-  (done) => parentPort?.postMessage({ done } satisfies PartOutcome<unknown>, buffersOf(done)),
-  (error: unknown) =>
-    parentPort?.postMessage({
-      error: error instanceof Error ? error.message : String(error),
-      dataError: error instanceof DataError,
-    } satisfies PartOutcome<unknown>),
-);
+parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: number }) => {
+  if ('cancel' in message) {
+    cancelled.add(message.cancel);
+    return;
+  }
+  const { id, job } = message;
+  const work: Promise<unknown> = job.kind === 'write' ? writePart(job, id) : readPart(job, id);
+  work.then(
+    (done) => parentPort?.postMessage({ id, outcome: { done } satisfies PartOutcome<unknown> }, buffersOf(done)),
+    (error: unknown) =>
+      parentPort?.postMessage({
+        id,
+        outcome: { error: error instanceof Error ? error.message : String(error), dataError: error instanceof DataError } satisfies PartOutcome<unknown>,
+      }),
+  );
+});

@@ -45,7 +45,7 @@ export interface ReadPartJob extends PartInput {
 
 export type PartJob = WritePartJob | ReadPartJob;
 
-/** A worker's answer: what it made, or its error (dataError: the input's fault, as DataError). */
+/** A worker's answer to a job: what it made, or its error (dataError: the input's fault, as DataError). */
 export type PartOutcome<T> = { readonly done: T } | { readonly error: string; readonly dataError: boolean };
 
 /**
@@ -71,35 +71,74 @@ export function inParts(source: InputSource): boolean {
 export interface RunningPart<T> {
   /** What the worker made; rejects with its error (a DataError for the input's fault). */
   readonly result: Promise<T>;
-  /** Stops the worker if it is still at work. */
-  stop(): Promise<void>;
+  /**
+   * Gives up the job if it is still at work: its result is ignored, and the
+   * worker stops it at its next read. (The worker is not terminated: a
+   * terminate() while the main thread has nothing else pending was seen to
+   * let the process exit before it resolved.) Returns whether the job was
+   * still at work: its files must then stay open, since it may still use them.
+   */
+  stop(): boolean;
 }
 
-/** Starts a worker on a job; the buffers in `transfer` move to it. */
+type Settle = (outcome: PartOutcome<unknown> | { readonly failed: Error }) => void;
+
+/**
+ * The one worker, started as early as the input is known (warmUp) so that
+ * it is ready by the time there is a part for it, and kept for both passes.
+ * It holds the process open only while a job is waited for.
+ */
+let shared: { readonly worker: Worker; readonly waiting: Map<number, Settle>; next: number } | undefined;
+
+function sharedWorker(): NonNullable<typeof shared> {
+  if (shared) return shared;
+  const worker = new Worker(workerFile() as string);
+  const state = { worker, waiting: new Map<number, Settle>(), next: 0 };
+  const failAll = (error: Error): void => {
+    if (shared === state) shared = undefined;
+    for (const settle of state.waiting.values()) settle({ failed: error });
+    state.waiting.clear();
+  };
+  worker.on('message', ({ id, outcome }: { id: number; outcome: PartOutcome<unknown> }) => {
+    const settle = state.waiting.get(id);
+    state.waiting.delete(id);
+    if (state.waiting.size === 0) worker.unref();
+    settle?.(outcome);
+  });
+  worker.on('error', failAll);
+  worker.on('exit', (code) => failAll(new Error(`the worker thread stopped (exit code ${code})`)));
+  worker.unref();
+  shared = state;
+  return state;
+}
+
+/** Starts the worker now if the source will be done in parts, so that it is ready when wanted. */
+export function warmUp(source: InputSource): void {
+  if (inParts(source)) sharedWorker();
+}
+
+/** Gives a job to the worker; the buffers in `transfer` move to it. */
 export function startPart<T>(job: PartJob, transfer: readonly ArrayBuffer[] = []): RunningPart<T> {
-  let worker: Worker | undefined;
-  let settled = false;
+  const state = sharedWorker();
+  const id = state.next++;
   const result = new Promise<T>((resolve, reject) => {
-    worker = new Worker(workerFile() as string, { workerData: job, transferList: [...transfer] });
-    worker.once('message', (outcome: PartOutcome<T>) => {
-      settled = true;
-      if ('done' in outcome) resolve(outcome.done);
+    state.waiting.set(id, (outcome) => {
+      if ('failed' in outcome) reject(outcome.failed);
+      else if ('done' in outcome) resolve(outcome.done as T);
       else reject(outcome.dataError ? new DataError(outcome.error) : new Error(outcome.error));
     });
-    worker.once('error', (error) => {
-      settled = true;
-      reject(error);
-    });
-    worker.once('exit', (code) => {
-      if (!settled) reject(new Error(`the worker thread stopped (exit code ${code})`));
-    });
   });
+  state.worker.ref();
+  state.worker.postMessage({ id, job }, [...transfer]);
   // Heeded by whoever awaits it; never an unhandled rejection when nobody does.
   result.catch(() => {});
   return {
     result,
-    async stop() {
-      if (!settled) await worker?.terminate();
+    stop() {
+      if (!state.waiting.delete(id)) return false;
+      state.worker.postMessage({ cancel: id });
+      if (state.waiting.size === 0) state.worker.unref();
+      return true;
     },
   };
 }

@@ -11,7 +11,7 @@ import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBoun
 import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { readSync } from 'node:fs';
-import { type RunningPart, inParts, startPart } from './parts.js';
+import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
 import { peek, scanInput } from './scan-input.js';
 import { type InputSource, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
@@ -353,6 +353,9 @@ function endingAt(source: InputSource, at: number): InputSource {
 /** The table, and the key of each family (the bytes of its values), in the order of its index. */
 async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[] }> {
   const known = options.shape;
+  // Reading in two parts: for a table read from its start, when only p-values, weights and families are wanted.
+  const inTwoParts = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined;
+  if (inTwoParts) warmUp(source);
   const head = known ? undefined : await peek(source, 1 << 16);
   if (head) refuseUnreadable(head, source.name);
   const delimiter = known?.delimiter ?? options.delimiter ?? sniffDelimiter(head as Buffer, source.extension);
@@ -563,9 +566,9 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   if (known) useShape(known);
   const middle = source.descriptor && source.size !== undefined && firstLine === undefined ? source.size / 2 : Infinity;
   let split: SplitPoint | undefined;
-  // The second half is read by a worker thread (parts.ts) when the table is large, read from a
-  // file, and only p-values, weights and families are wanted; this thread stops where it starts.
-  const half = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined && inParts(source) ? lineStartPastMiddle(source) : undefined;
+  // The second half is read by a worker thread (parts.ts) when the table is large and read from a
+  // file; this thread stops where it starts.
+  const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
   const startSecondHalf = (at: number): void => {
     second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: source.size as number, line: 1, options: { ...options, shape: shape as TableShape } });
@@ -598,7 +601,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
       ...(half === undefined ? {} : { pause: { at: half, resume: async (line: number) => !(second && (await takeSecondHalf(half, line))) } }),
     });
   } finally {
-    await second?.stop();
+    second?.stop();
   }
 
   if (shape === undefined) {

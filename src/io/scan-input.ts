@@ -7,6 +7,12 @@ import type { Dialect } from './dialect.js';
 import type { InputSource } from './source.js';
 
 const BLOCK_SIZE = 1 << 20;
+/**
+ * The record left unfinished at the end of a chunk is joined to the next
+ * chunk's first JOIN bytes in a copy, rather than the whole chunk (a copy of
+ * every byte of the input, otherwise).
+ */
+const JOIN = 1 << 16;
 
 export interface ScanHandlers {
   record(view: RecordView): void;
@@ -39,13 +45,34 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
   let carry: Buffer = Buffer.alloc(0);
   let pending: Buffer[] = [];
   let pendingSize = 0;
+  /** Where carry[0] lies in the input. */
+  let carryOffset = 0;
   const scanBlock = async (atEnd: boolean): Promise<void> => {
-    const block = carry.length === 0 && pending.length === 1 ? (pending[0]) : Buffer.concat([carry, ...pending]);
+    let block: Buffer;
+    let from = 0;
+    // Where block[0] lies in the input.
+    let blockOffset = carryOffset;
+    const chunk = pending.length === 1 ? (pending[0] as Buffer) : undefined;
+    if (chunk && carry.length === 0) block = chunk;
+    else if (chunk && chunk.length > JOIN && carry.length < JOIN) {
+      // Only the records across the join are scanned in a copy; the rest of the chunk where it is.
+      scanner.bufOffset = carryOffset;
+      const consumed = scanner.scan(Buffer.concat([carry, chunk.subarray(0, JOIN)]), 0, false, handlers.record);
+      if (consumed >= carry.length) {
+        block = chunk;
+        from = consumed - carry.length;
+        blockOffset = carryOffset + carry.length;
+      } else {
+        block = Buffer.concat([carry, chunk]);
+        from = consumed;
+      }
+    } else block = Buffer.concat([carry, ...pending]);
     pending = [];
     pendingSize = 0;
-    const consumed = scanner.scan(block, 0, atEnd, handlers.record);
-    scanner.bufOffset += consumed;
+    scanner.bufOffset = blockOffset;
+    const consumed = scanner.scan(block, from, atEnd, handlers.record);
     carry = block.subarray(consumed);
+    carryOffset = blockOffset + consumed;
     if (handlers.afterBlock) await handlers.afterBlock();
   };
   let fed = 0;
