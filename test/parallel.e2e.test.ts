@@ -9,11 +9,11 @@
 // parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one thread, through
 // the built command line.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, closeSync, mkdtempSync, openSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { bufferSource, fileSource } from '../dist/io/source.js';
+import { bufferSource, fileSource, rangeSource } from '../dist/io/source.js';
 import { inParts } from '../dist/io/parts.js';
 import { CLI } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
@@ -142,6 +142,30 @@ describe('writing in two parts', () => {
     const text = table('id,chrom,p\n', 400_000, (i) => `variant${i},${1 + (i % 22)},${i === 300_000 ? '1e-400' : p()}\n`);
     expect(text.length).toBeGreaterThan(2 * (4 << 20));
     sameBothWays(['adjust', write('chunks.csv', text), '--family', 'chrom']);
+  });
+
+  it('writes in one thread when no temporary file can be made (TMPDIR missing)', () => {
+    const name = write('no-temp.csv', table('id,p\n', 3000, (i) => `r${i},${p()}\n`));
+    const args = [CLI, 'adjust', name, '-q'];
+    const env = (minimum: string) => ({ ...process.env, FAMWISE_PARALLEL_MIN_BYTES: minimum, TMPDIR: join(work, 'no-such-folder') });
+    const parts = spawnSync(process.execPath, args, { cwd: work, env: env('0') });
+    const single = spawnSync(process.execPath, args, { cwd: work, env: env(ONE_THREAD) });
+    expect(parts.stderr.toString()).toBe('');
+    expect(parts.status).toBe(0);
+    expect(parts.stdout.equals(single.stdout)).toBe(true);
+  });
+
+  it('reads the second part to where the file ends, not where it ended when it was opened', async () => {
+    const path = join(work, write('grows.csv', 'id,p\nr1,0.5\n'));
+    const fd = openSync(path, 'r');
+    try {
+      appendFileSync(path, 'r2,0.25\n');
+      const chunks: Buffer[] = [];
+      for await (const chunk of rangeSource('grows.csv', fd, 5, Infinity).chunks()) chunks.push(chunk);
+      expect(Buffer.concat(chunks).toString()).toBe('r1,0.5\nr2,0.25\n');
+    } finally {
+      closeSync(fd);
+    }
   });
 
   it('gives the p-values of one thread when they are computed from statistics', () => {

@@ -107,3 +107,13 @@ describe('drawing', () => {
     expect(written.at(-1)).toBe('\r\x1b[K');
   });
 });
+
+describe('with a table read by position', () => {
+  it('hides the descriptor, so that the table is read in one thread, through the counted chunks', () => {
+    const source: InputSource = { name: 't.csv', extension: 'csv', size: 10, descriptor: () => 3, chunks: async function* () {} };
+    const watched = progressLine(() => {}).watch(source);
+    expect(source.descriptor).toBeDefined();
+    expect(watched.descriptor).toBeUndefined();
+    expect(watched.size).toBe(10);
+  });
+});

@@ -94,8 +94,11 @@ export function progressLine(write: (text: string) => void, now: () => number = 
   return {
     watch(source) {
       totalBytes = source.size;
+      // Without the descriptor: every byte must pass through chunks() to be counted, so a
+      // watched table is read in one thread (io/parts.ts reads by position, unseen here).
+      const { descriptor: _readByPosition, ...inOrder } = source;
       return {
-        ...source,
+        ...inOrder,
         async *chunks() {
           // A first look at the start of the table (which stops early) counts as no pass.
           lines = 0;

@@ -15,6 +15,7 @@ import { type ColumnsPlan, planFrom, plannedColumns } from './column-plan.js';
 import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
 import { type InputSource, rangeSource, readAt } from './source.js';
+import type { FileHandle } from 'node:fs/promises';
 import { temporaryFile } from './spill.js';
 import { checkRowCount, writeTable } from './write-table.js';
 
@@ -31,15 +32,25 @@ export async function writeTableInParts(
   split: SplitPoint,
 ): Promise<void> {
   const fd = (source.descriptor as () => number)();
-  const size = source.size as number;
-  const temporary = await temporaryFile();
+  /** Writes the part from the split on in this thread, after the first. */
+  const writeSecondHere = (): Promise<number> =>
+    writeTable(rangeSource(source.name, fd, split.offset, Infinity), shape, plannedColumns(planFrom(plan, split.row)), format, sink, rows - split.row, { firstLine: split.line });
+  let temporary: FileHandle;
+  try {
+    temporary = await temporaryFile();
+  } catch {
+    // No temporary file to be had (TMPDIR missing or full): one thread, which needs none.
+    checkRowCount(source, (await writeTable(rangeSource(source.name, fd, 0, split.offset), shape, plannedColumns(plan), format, sink, split.row, {})) + (await writeSecondHere()), rows);
+    return;
+  }
   const partPlan = planFrom(plan, split.row);
   const job: WritePartJob = {
     kind: 'write',
     name: source.name,
     fd,
     start: split.offset,
-    end: size,
+    // To wherever the file ends, as one thread reads it: a file that grew is then noticed.
+    end: Infinity,
     line: split.line,
     rows: rows - split.row,
     shape,
@@ -48,31 +59,36 @@ export async function writeTableInParts(
     outFd: temporary.fd,
   };
   const second = startPart<{ written: number; rows: number }>(job, [...new Set(partPlan.columns.map((column) => column.values.buffer as ArrayBuffer))]);
+  // The temporary file is closed only once the worker is known to be done with it: closing it
+  // while the worker may still write could hand its descriptor to another file. Otherwise it
+  // stays open (unlinked) until the process exits.
+  let workerDone = false;
   try {
     const first = await writeTable(rangeSource(source.name, fd, 0, split.offset), shape, plannedColumns(plan), format, sink, split.row, {});
     let written: number;
     let later: number;
     try {
       ({ written, rows: later } = await second.result);
+      workerDone = true;
     } catch (error) {
       if (error instanceof DataError) throw error;
-      later = await writeTable(rangeSource(source.name, fd, split.offset, size), shape, plannedColumns(planFrom(plan, split.row)), format, sink, rows - split.row, { firstLine: split.line });
-      checkRowCount(source, first + later, rows);
+      // The worker could not do its part (it could not start, its temporary file was full):
+      // this thread writes it instead.
+      checkRowCount(source, first + (await writeSecondHere()), rows);
       return;
     }
     // The second part is not copied after a first part that came out short.
     checkRowCount(source, first + later, rows);
     for (let position = 0; position < written; ) {
       const chunk = await readAt(temporary.fd, Math.min(COPY_SIZE, written - position), position);
-      if (chunk.length === 0) throw new Error('the second part of the table ended early');
+      if (chunk.length === 0) throw new Error(`the temporary file holding the second part of the table ended at ${position} of ${written} bytes`);
       position += chunk.length;
       sink.pushBlock(chunk);
       await sink.flush();
     }
     await sink.flush(true);
   } finally {
-    // A worker still writing keeps its temporary file (unlinked; closed at exit): closing it
-    // here could hand its descriptor to another file while the worker still writes to it.
-    if (!second.stop()) await temporary.close();
+    second.stop();
+    if (workerDone) await temporary.close();
   }
 }

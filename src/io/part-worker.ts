@@ -34,10 +34,11 @@ async function writePart(job: WritePartJob, id: number): Promise<{ written: numb
   const stream = createWriteStream('', { fd: job.outFd, autoClose: false });
   const sink = new ByteSink(stream);
   const rows = await writeTable(partSource(job, id), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
+  // Done only when every byte is in the file: a write that failed late (a full disk) fails the job.
   await new Promise<void>((resolve, reject) => {
-    stream.once('error', reject);
-    stream.end(resolve);
+    stream.end((error?: Error | null) => (error ? reject(error) : resolve()));
   });
+  if (stream.bytesWritten !== sink.written) throw new Error(`wrote ${stream.bytesWritten} of ${sink.written} bytes to the temporary file`);
   return { written: sink.written, rows };
 }
 

@@ -19,7 +19,7 @@ import type { InputSource } from './source.js';
 /** Below this many bytes of input one thread does it all: starting a worker costs about 50 ms. */
 const SMALLEST = 8 << 20;
 
-/** The part of the input a worker reads: bytes [start, end) of a descriptor, from the record on line `line`. */
+/** The part of the input a worker reads: bytes [start, end) of a descriptor (end Infinity: to the end of the file), from the record on line `line`. */
 export interface PartInput {
   readonly name: string;
   readonly fd: number;
@@ -59,8 +59,9 @@ function workerFile(): string | undefined {
 
 /** Smallest input (bytes) done in two parts; FAMWISE_PARALLEL_MIN_BYTES sets it (tests use 0; a huge number turns it off). */
 function smallest(): number {
-  const set = Number(process.env.FAMWISE_PARALLEL_MIN_BYTES);
-  return process.env.FAMWISE_PARALLEL_MIN_BYTES !== undefined && set >= 0 ? set : SMALLEST;
+  const text = process.env.FAMWISE_PARALLEL_MIN_BYTES?.trim() ?? '';
+  const set = Number(text);
+  return text !== '' && set >= 0 ? set : SMALLEST;
 }
 
 /** Whether a source is worth doing in two parts, and can be. */

@@ -345,7 +345,7 @@ function endingAt(source: InputSource, at: number): InputSource {
     ...source,
     async *chunks() {
       yield* rangeSource(source.name, fd, 0, at).chunks();
-      yield* rangeSource(source.name, fd, at, source.size as number).chunks();
+      yield* rangeSource(source.name, fd, at, Infinity).chunks();
     },
   };
 }
@@ -571,7 +571,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
   const startSecondHalf = (at: number): void => {
-    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: source.size as number, line: 1, options: { ...options, shape: shape as TableShape } });
+    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: Infinity, line: 1, options: { ...options, shape: shape as TableShape } });
   };
   /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
   const takeSecondHalf = async (at: number, line: number): Promise<boolean> => {

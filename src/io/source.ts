@@ -58,12 +58,17 @@ export function readAt(fd: number, length: number, position: number): Promise<Bu
   });
 }
 
-/** Bytes [start, end) of what a descriptor reads by position, as a source of its own. */
+/**
+ * Bytes [start, end) of what a descriptor reads by position, as a source of
+ * its own; with end Infinity, to wherever the file ends when it is read (as
+ * a stream reads it: a file that grew or shrank since is then seen to have
+ * changed, by its row count).
+ */
 export function rangeSource(name: string, fd: number, start: number, end: number): InputSource {
   return {
     name,
     extension: '',
-    size: end - start,
+    ...(Number.isFinite(end) ? { size: end - start } : {}),
     async *chunks() {
       for (let position = start; position < end; ) {
         const chunk = await readAt(fd, Math.min(READ_SIZE, end - position), position);
