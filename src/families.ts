@@ -138,7 +138,12 @@ export function adjustWithinFamilies(
   }
   const gatheredWeights = weights === undefined || rowOf === undefined ? weights : Float64Array.from(rowOf, (row) => (weights as Float64Array)[row]);
 
-  const adjusted = methods.map(() => new Float64Array(p.length).fill(NaN));
+  // Allocated when first written, after the first family's sort: the sort's spare arrays can
+  // then be collected first, which lowers the peak memory of a large single family. Shared
+  // memory, so that a worker thread writing part of the table (io/parallel-write.ts) reads the
+  // values where they are rather than a copy.
+  const made: (Float64Array | undefined)[] = methods.map(() => undefined);
+  const adjustedFor = (k: number): Float64Array => (made[k] ??= new Float64Array(new SharedArrayBuffer(8 * p.length)).fill(NaN));
   const outcomes: FamilyOutcome[][] = [];
   for (let f = 0; f < count; f++) {
     const from = start[f];
@@ -152,7 +157,7 @@ export function adjustWithinFamilies(
         const { adjusted: values, pi0 } = sortedWeights
           ? { adjusted: (method.adjustWeighted as WeightedKernel)(sorted, sortedWeights, m), pi0: undefined }
           : method.run({ sorted, m }, options.settings ?? DEFAULT_SETTINGS);
-        const target = adjusted[k];
+        const target = adjustedFor(k);
         let rejected = 0;
         let threshold = -1;
         for (let i = 0; i < values.length; i++) {
@@ -174,7 +179,7 @@ export function adjustWithinFamilies(
       }),
     );
   }
-  return { adjusted, outcomes };
+  return { adjusted: methods.map((_, k) => adjustedFor(k)), outcomes };
 }
 
 function familyWeights(weights: Float64Array, family: number): Float64Array {

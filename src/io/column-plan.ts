@@ -40,13 +40,22 @@ export function plannedColumns(plan: ColumnsPlan): OutputColumn[] {
   });
 }
 
-/** The plan for the data rows from `first` on (row 0 of the part is row `first` of the table). */
+/**
+ * The plan for the data rows from `first` on (row 0 of the part is row
+ * `first` of the table): views of values in shared memory, copies of others.
+ */
 export function planFrom(plan: ColumnsPlan, first: number): ColumnsPlan {
   const parts = new Map<Float64Array, Float64Array>();
   const part = (values: Float64Array): Float64Array => {
-    let sliced = parts.get(values);
-    if (!sliced) parts.set(values, (sliced = values.slice(first)));
-    return sliced;
+    let later = parts.get(values);
+    if (!later) parts.set(values, (later = values.buffer instanceof SharedArrayBuffer ? values.subarray(first) : values.slice(first)));
+    return later;
   };
   return { ...plan, columns: plan.columns.map((column) => ({ ...column, values: part(column.values) })) };
+}
+
+/** The buffers of a plan's values that can be moved to another thread (shared memory is sent as it is). */
+export function movableBuffers(plan: ColumnsPlan): ArrayBuffer[] {
+  const buffers = plan.columns.map((column) => column.values.buffer).filter((buffer): buffer is ArrayBuffer => !(buffer instanceof SharedArrayBuffer));
+  return [...new Set(buffers)];
 }

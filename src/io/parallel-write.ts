@@ -11,7 +11,7 @@
 
 import { DataError } from '../errors.js';
 import type { ByteSink } from './byte-sink.js';
-import { type ColumnsPlan, planFrom, plannedColumns } from './column-plan.js';
+import { type ColumnsPlan, movableBuffers, planFrom, plannedColumns } from './column-plan.js';
 import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
 import { type InputSource, rangeSource, readAt } from './source.js';
@@ -58,7 +58,7 @@ export async function writeTableInParts(
     plan: partPlan,
     outFd: temporary.fd,
   };
-  const second = startPart<{ written: number; rows: number }>(job, [...new Set(partPlan.columns.map((column) => column.values.buffer as ArrayBuffer))]);
+  const second = startPart<{ written: number; rows: number }>(job, movableBuffers(partPlan));
   // The temporary file is closed only once the worker is known to be done with it: closing it
   // while the worker may still write could hand its descriptor to another file. Otherwise it
   // stays open (unlinked) until the process exits.
