@@ -2,6 +2,7 @@
 // kinds, the numbers), so that the same cells can be made in another
 // thread (io/parallel-write.ts) as in this one.
 
+import { LONGEST_NUMBER, writeNumber } from './number-text.js';
 import type { OutputColumn } from './write-table.js';
 
 export interface ColumnPlan {
@@ -21,13 +22,12 @@ export interface ColumnsPlan {
   readonly decimalComma: boolean;
 }
 
-/** A number as the shortest decimal that reads back to the same double; empty for NaN. */
+const scratch = Buffer.alloc(LONGEST_NUMBER);
+
+/** A number as the shortest decimal that reads back to the same double (as String() writes it); empty for NaN. */
 export function numberText(value: number, decimalComma: boolean): string {
-  if (Number.isNaN(value)) return '';
-  // Most FWER-adjusted values of a large table are capped at 1: no need to format them.
-  if (value === 1) return '1';
-  const text = String(value);
-  return decimalComma ? text.replace('.', ',') : text;
+  // The one writer of numbers, so that every output format shows the same text.
+  return scratch.toString('latin1', 0, writeNumber(value, scratch, 0, decimalComma));
 }
 
 export function plannedColumns(plan: ColumnsPlan): OutputColumn[] {

@@ -2,6 +2,7 @@
 // then read every row's p-value and family into typed arrays. Nothing else
 // of the row is kept; writers read the source again to copy it out.
 
+import { readSync } from 'node:fs';
 import { DataError, UsageError, quoteText } from '../errors.js';
 import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
@@ -10,7 +11,6 @@ import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
-import { readSync } from 'node:fs';
 import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
 import { peek, scanInput } from './scan-input.js';
 import { type InputSource, rangeSource } from './source.js';
@@ -237,6 +237,16 @@ function shownText(latin1: string): string {
   const text = bytes.toString('utf8');
   if (!text.includes('\ufffd') || Buffer.from(text, 'utf8').equals(bytes)) return text;
   return latin1.replace(/[\x80-\xff]/g, (character) => `\\x${character.charCodeAt(0).toString(16)}`);
+}
+
+/** A family's key: the bytes (as latin1 text) of its values in the family columns. */
+function familyKey(bytes: readonly string[]): string {
+  return bytes.length === 1 ? (bytes[0] as string) : JSON.stringify(bytes);
+}
+
+/** The values a family key was made of, for a grouping by `columns` columns. */
+function familyBytes(key: string, columns: number): string[] {
+  return columns === 1 ? [key] : (JSON.parse(key) as string[]);
 }
 
 /** Whether the input starts with these bytes. */
@@ -489,7 +499,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     // Keyed on the bytes, so that values differing only in bytes that are not
     // valid UTF-8 stay apart; decoded as UTF-8 only to show them.
     const bytes = familyColumns.map((column) => fieldText(view, column, 'latin1'));
-    const key = bytes.length === 1 ? bytes[0] : JSON.stringify(bytes);
+    const key = familyKey(bytes);
     let id = familyIndex.get(key);
     if (id === undefined) {
       id = familyValues.length;
@@ -552,8 +562,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
         if (id === undefined) {
           id = familyValues.length;
           familyIndex.set(key, id);
-          const bytes = familyColumns.length === 1 ? [key] : (JSON.parse(key) as string[]);
-          familyValues.push(bytes.map(shownText));
+          familyValues.push(familyBytes(key, familyColumns.length).map(shownText));
         }
         return id;
       });
