@@ -40,7 +40,7 @@ export async function writeTableInParts(
     temporary = await temporaryFile();
   } catch {
     // No temporary file to be had (TMPDIR missing or full): one thread, which needs none.
-    checkRowCount(source, (await writeTable(rangeSource(source.name, fd, 0, split.offset), shape, plannedColumns(plan), format, sink, split.row, {})) + (await writeSecondHere()), rows);
+    await writeTable(source, shape, plannedColumns(plan), format, sink, rows);
     return;
   }
   const partPlan = planFrom(plan, split.row);

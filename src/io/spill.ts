@@ -14,13 +14,12 @@ import { type FileHandle, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
-import type { InputSource } from './source.js';
+import { type InputSource, rangeSource } from './source.js';
 
 /** Inputs up to this size are kept in memory (typing at the terminal, short pipes). */
 const IN_MEMORY = 32 << 20;
 /** Chunks are gathered into writes of about this size. */
 const WRITE_SIZE = 4 << 20;
-const READ_SIZE = 4 << 20;
 
 const leftOver = new Set<string>();
 /**
@@ -93,14 +92,6 @@ export async function spilledSource(stream: Readable, name: string, inMemory = I
     size,
     descriptor: () => handle.fd,
     // Read by position, so that passes (and a first look that stops early) never disturb each other.
-    async *chunks() {
-      for (let position = 0; ; ) {
-        const block = Buffer.allocUnsafe(READ_SIZE);
-        const { bytesRead } = await handle.read(block, 0, READ_SIZE, position);
-        if (bytesRead === 0) return;
-        position += bytesRead;
-        yield block.subarray(0, bytesRead);
-      }
-    },
+    chunks: () => rangeSource(name, handle.fd, 0, Infinity).chunks(),
   };
 }
