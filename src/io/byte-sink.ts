@@ -79,6 +79,27 @@ export class ByteSink {
     this.size = writeNumber(value, this.block, this.size + 1, decimalComma);
   }
 
+  /** Appends a delimiter byte and then "true" where value <= alpha, "false" above, nothing for NaN. */
+  pushDecisionCell(delimiter: number, value: number, alpha: number): void {
+    if (this.size + 6 > this.block.length) this.nextBlock(6);
+    const block = this.block;
+    let size = this.size;
+    block[size++] = delimiter;
+    if (value <= alpha) {
+      block[size++] = 0x74; // t
+      block[size++] = 0x72; // r
+      block[size++] = 0x75; // u
+      block[size++] = 0x65; // e
+    } else if (value > alpha) {
+      block[size++] = 0x66; // f
+      block[size++] = 0x61; // a
+      block[size++] = 0x6c; // l
+      block[size++] = 0x73; // s
+      block[size++] = 0x65; // e
+    }
+    this.size = size;
+  }
+
   pushText(text: string): void {
     // A UTF-8 character takes at most 3 bytes per UTF-16 unit.
     if (this.size + 3 * text.length > this.block.length) this.nextBlock(3 * text.length);

@@ -34,7 +34,7 @@ export function plannedColumns(plan: ColumnsPlan): OutputColumn[] {
   const { alpha, decimalComma } = plan;
   return plan.columns.map(({ name, replaces, kind, values }) => {
     if (kind === 'decision') {
-      return { name, replaces, cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false') };
+      return { name, replaces, cell: (row: number) => (Number.isNaN(values[row]) ? '' : values[row] <= alpha ? 'true' : 'false'), decisions: { values, alpha } };
     }
     return { name, replaces, cell: (row: number) => numberText(values[row] as number, decimalComma), numbers: { values, decimalComma } };
   });

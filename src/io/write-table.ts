@@ -28,6 +28,11 @@ export interface OutputColumn {
    * writer then writes the bytes itself (io/number-text.ts), which is faster.
    */
   readonly numbers?: { readonly values: Float64Array; readonly decimalComma: boolean } | undefined;
+  /**
+   * Set for a column of decisions, whose cell(row) is "true" where
+   * values[row] <= alpha, "false" above and empty for NaN: written as bytes.
+   */
+  readonly decisions?: { readonly values: Float64Array; readonly alpha: number } | undefined;
 }
 
 function needsQuotes(text: string, delimiter: string): boolean {
@@ -110,7 +115,8 @@ export async function writeTable(
     return row;
   }
 
-  const delimiter = String.fromCharCode(format.delimiter);
+  const outDelimiter = format.delimiter;
+  const delimiter = String.fromCharCode(outDelimiter);
   const copyFields = format.delimiter === shape.delimiter;
   // Records copied whole need only their bounds, not their fields.
   const wholeRecords = copyFields && replacing.size === 0;
@@ -129,15 +135,22 @@ export async function writeTable(
           else sink.push(quotedBytes(fieldBytes(view, k), delimiter));
         }
       }
-      for (const column of appended) {
-        const numbers = column.numbers;
-        // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
-        if (numbers && row >= 0 && !(numbers.decimalComma && format.delimiter === COMMA)) {
-          sink.pushNumberCell(format.delimiter, numbers.values[row] as number, numbers.decimalComma);
-          continue;
+      for (let k = 0; k < appended.length; k++) {
+        const column = appended[k] as OutputColumn;
+        if (row >= 0) {
+          const { numbers, decisions } = column;
+          // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
+          if (numbers && !(numbers.decimalComma && outDelimiter === COMMA)) {
+            sink.pushNumberCell(outDelimiter, numbers.values[row] as number, numbers.decimalComma);
+            continue;
+          }
+          if (decisions) {
+            sink.pushDecisionCell(outDelimiter, decisions.values[row] as number, decisions.alpha);
+            continue;
+          }
         }
         const text = row < 0 ? column.name : column.cell(row);
-        if (sink.pushPlainCell(format.delimiter, text)) continue;
+        if (sink.pushPlainCell(outDelimiter, text)) continue;
         sink.pushText(delimiter);
         sink.pushText(quoted(text, delimiter));
       }
