@@ -1,6 +1,6 @@
 // The radix sort that every procedure relies on, against the engine's own sort.
 import { describe, expect, it } from 'vitest';
-import { ascendingOrder, gather, scatter, sortAscending } from '../src/procedures/sorting.js';
+import { ascendingOrder, gather, mergeSorted, scatter, sortAscending, sortAscendingInPlace } from '../src/procedures/sorting.js';
 import { awkwardPValues, seededRandom } from './helpers/random.js';
 
 describe('ascendingOrder', () => {
@@ -43,5 +43,43 @@ describe('ascendingOrder', () => {
     const p = awkwardPValues(seededRandom(5), 500);
     const order = ascendingOrder(p);
     expect(scatter(gather(p, order), order)).toEqual(p);
+  });
+});
+
+describe('mergeSorted', () => {
+  const bits = (values: Float64Array): number[] => Array.from(new Uint32Array(values.buffer, values.byteOffset, 2 * values.length));
+
+  it('gives, from the sorts of two parts, the sort of the whole, bit for bit and with ties in input order', () => {
+    const random = seededRandom(17);
+    for (const size of [0, 1, 2, 600, 3000, 20_000]) {
+      const p = awkwardPValues(random, size);
+      // Ties across the split, and -0 beside 0 on either side of it.
+      if (size > 10) {
+        p[1] = -0;
+        p[size - 2] = 0;
+        p[size - 1] = p[0] as number;
+      }
+      for (const split of [0, 1, Math.floor(size / 3), size - 1, size].filter((at) => at >= 0 && at <= size)) {
+        const whole = sortAscending(p);
+        const merged = mergeSorted(sortAscending(p.subarray(0, split)), sortAscending(p.subarray(split)));
+        expect(Array.from(merged.order)).toEqual(Array.from(whole.order));
+        expect(bits(merged.sorted)).toEqual(bits(whole.sorted));
+      }
+    }
+  });
+
+  it('sortAscendingInPlace gives what sortAscending gives', () => {
+    const p = awkwardPValues(seededRandom(19), 5000);
+    const whole = sortAscending(p);
+    const inPlace = sortAscendingInPlace(p.slice());
+    expect(Array.from(inPlace.order)).toEqual(Array.from(whole.order));
+    expect(bits(inPlace.sorted)).toEqual(bits(whole.sorted));
+    // A view into a larger buffer is sorted where it lies, the rest left alone.
+    const larger = new Float64Array(p.length + 8).fill(7);
+    larger.set(p, 3);
+    const view = sortAscendingInPlace(larger.subarray(3, 3 + p.length));
+    expect(Array.from(view.order)).toEqual(Array.from(whole.order));
+    expect(bits(view.sorted)).toEqual(bits(whole.sorted));
+    expect([larger[0], larger[2], larger[p.length + 3], larger[p.length + 7]]).toEqual([7, 7, 7, 7]);
   });
 });

@@ -43,6 +43,11 @@ function smallAscendingOrder(p: Float64Array): Uint32Array {
  * their input order). p must hold numbers >= 0, no NaN.
  */
 export function sortAscending(p: Float64Array): Sorted {
+  return sortAscendingInPlace(p.slice());
+}
+
+/** sortAscending, using p itself as working space: p is overwritten (it may become the result's sorted). */
+export function sortAscendingInPlace(p: Float64Array): Sorted {
   const n = p.length;
   if (n < SMALL) {
     const order = smallAscendingOrder(p);
@@ -56,12 +61,12 @@ export function sortAscending(p: Float64Array): Sorted {
       return { order, sorted: gather(p, order) };
     }
   }
-  let keys = p.slice();
-  let spareKeys = new Float64Array(n);
+  let keys: Float64Array = p;
+  let spareKeys: Float64Array = new Float64Array(n);
   let order = new Uint32Array(n);
   let spare = new Uint32Array(n);
   const counts = new Uint32Array(RADIX * PASSES);
-  let words = new Uint32Array(keys.buffer);
+  let words = new Uint32Array(keys.buffer, keys.byteOffset, 2 * n);
   // Digit k is bits 11k to 11k + 10 of the pattern; digit 2 spans both words.
   for (let i = 0; i < n; i++) {
     order[i] = i;
@@ -103,9 +108,46 @@ export function sortAscending(p: Float64Array): Sorted {
     }
     [keys, spareKeys] = [spareKeys, keys];
     [order, spare] = [spare, order];
-    words = new Uint32Array(keys.buffer);
+    words = new Uint32Array(keys.buffer, keys.byteOffset, 2 * n);
   }
   return { order, sorted: keys };
+}
+
+/**
+ * The sort of a whole array from the sorts of its two parts, for parts
+ * sorted in two threads: first sorts p[0, split), second p[split, n) (its
+ * order counted from split). Ties go to the first part, so the result is
+ * what the stable sortAscending gives for the whole, -0 with 0 included.
+ * Linear in n.
+ */
+export function mergeSorted(first: Sorted, second: Sorted): Sorted {
+  const split = first.order.length;
+  const n = split + second.order.length;
+  const order = new Uint32Array(n);
+  const sorted = new Float64Array(n);
+  const a = first.sorted;
+  const b = second.sorted;
+  let i = 0;
+  let j = 0;
+  let k = 0;
+  while (i < split && j < b.length) {
+    if ((a[i] as number) <= (b[j] as number)) {
+      sorted[k] = a[i] as number;
+      order[k++] = first.order[i++] as number;
+    } else {
+      sorted[k] = b[j] as number;
+      order[k++] = split + (second.order[j++] as number);
+    }
+  }
+  for (; i < split; i++, k++) {
+    sorted[k] = a[i] as number;
+    order[k] = first.order[i] as number;
+  }
+  for (; j < b.length; j++, k++) {
+    sorted[k] = b[j] as number;
+    order[k] = split + (second.order[j] as number);
+  }
+  return { order, sorted };
 }
 
 /**
