@@ -8,7 +8,7 @@
 import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
 import { normalisedWeights } from './procedures/weights.js';
-import { gather, sortAscending } from './procedures/sorting.js';
+import { type Sorted, gather, sortAscending } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 /** Family membership: ids[row] is in [0, count). */
@@ -47,6 +47,12 @@ export interface WithinFamiliesOptions {
   readonly weights?: Float64Array | undefined;
   /** Tuning for the procedures that take any. */
   readonly settings?: MethodSettings | undefined;
+  /**
+   * p already sorted (sortAscending(p), say from two parts sorted in two
+   * threads), used in place of sorting when every row is in one family and
+   * no p-value is missing; ignored otherwise.
+   */
+  readonly sorted?: Sorted | undefined;
 }
 
 /** Thrown when --tests is smaller than the p-values a family holds. */
@@ -150,7 +156,8 @@ export function adjustWithinFamilies(
     const to = start[f + 1];
     const segment = gathered.subarray(from, to);
     const m = checkedTestCount(segment, testsOf(f) ?? segment.length);
-    const { order, sorted } = sortAscending(segment);
+    const presorted = options.sorted !== undefined && count === 1 && rowOf === undefined && options.sorted.order.length === segment.length ? options.sorted : undefined;
+    const { order, sorted } = presorted ?? sortAscending(segment);
     const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);
     outcomes.push(
       methods.map((method, k) => {

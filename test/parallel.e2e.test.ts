@@ -79,6 +79,19 @@ describe('writing in two parts', () => {
     expect(out.toString().split('\r\n')).toHaveLength(5002);
   });
 
+  it('gives the values of one thread when each thread sorts its own part, with every method, ties across the parts and missing p-values', () => {
+    const methods = ['--methods', 'bonferroni,holm,sidak,holm-sidak,hochberg,hommel,bh,by,storey,bky', '-q'];
+    // Few distinct values: many ties, on both sides of the middle.
+    const tied = write('tied.csv', table('id,p\n', 6000, (i) => `r${i},${((i * 37) % 50) / 400}\n`));
+    const out = sameBothWays(['adjust', tied, ...methods]);
+    expect(out.toString().split('\n')).toHaveLength(6002);
+    // A missing p-value in either part: the table is then sorted once, after reading.
+    for (const missingAt of [10, 4500]) {
+      const name = write(`missing-${missingAt}.csv`, table('id,p\n', 6000, (i) => `r${i},${i === missingAt ? 'NA' : p()}\n`));
+      sameBothWays(['adjust', name, ...methods]);
+    }
+  });
+
   it('keeps a quoted field with line breaks at the middle, blank lines, and no final line break', () => {
     const text = table('id,note,p\n', 4001, (i) => `r${i},"n ${i}",${p()}\n${i % 7 === 0 ? '\n\r\n' : ''}`, `mid,"line one\n\nline three, with ""quotes""",0.001\n\n\n`);
     const name = write('quoted.csv', text.slice(0, -1));

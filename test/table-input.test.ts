@@ -6,7 +6,8 @@ import { sniffDelimiter, sniffLoneCr } from '../src/io/dialect.js';
 import { MISSING_MARKS, readPValue, readUpperBound, underflowed, whyNotPValue } from '../src/io/p-value-text.js';
 import { readTable } from '../src/io/read-table.js';
 import { bufferSource } from '../src/io/source.js';
-import { findMethod, type Method } from '../src/methods.js';
+import { METHODS, findMethod, type Method } from '../src/methods.js';
+import { sortAscending } from '../src/procedures/sorting.js';
 
 describe('readPValue', () => {
   it.each([
@@ -144,6 +145,23 @@ describe('adjustWithinFamilies', () => {
     const result = adjustWithinFamilies(Float64Array.of(0.001, 0.002, 0.003), { ids: Int32Array.of(0, 1, 0), count: 2 }, [bonferroni], { alpha: 0.05, tests: [10, 7] });
     expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.01, 0.014, 0.03]);
     expect(() => adjustWithinFamilies(Float64Array.of(0.1, 0.2), singleFamily(2), [bonferroni], { alpha: 0.05, tests: [1] })).toThrow(TooFewTestsError);
+  });
+
+  it('takes p sorted already (as two threads sort it) for one family with no missing p-value, and ignores it otherwise', () => {
+    const p = Float64Array.from({ length: 3000 }, (_, i) => ((i * 7919) % 1000) / 1000);
+    const every = METHODS;
+    const plain = adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05 });
+    const presorted = adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05, sorted: sortAscending(p) });
+    expect(presorted).toEqual(plain);
+    // A sort that is not p's would show in the values: so it is not used for two families, or with a missing p-value.
+    const wrong = { order: new Uint32Array(p.length), sorted: new Float64Array(p.length) };
+    const ids = Int32Array.from(p, (_, i) => i % 2);
+    expect(adjustWithinFamilies(p, { ids, count: 2 }, every, { alpha: 0.05, sorted: wrong })).toEqual(adjustWithinFamilies(p, { ids, count: 2 }, every, { alpha: 0.05 }));
+    const gap = p.slice();
+    gap[5] = NaN;
+    expect(adjustWithinFamilies(gap, singleFamily(p.length), every, { alpha: 0.05, sorted: wrong })).toEqual(adjustWithinFamilies(gap, singleFamily(p.length), every, { alpha: 0.05 }));
+    // And a wrong one for the one family is used as given: the test above would see it.
+    expect(adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05, sorted: wrong })).not.toEqual(plain);
   });
 
   it('handles a table with no rows', () => {

@@ -254,8 +254,11 @@ function methodSettings(options: AdjustOptions): MethodSettings {
 
 /** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
 function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodSettings, familyColumnNames: readonly string[]): WithinFamilies {
+  const { sorted } = table;
+  // Not kept once used: 12 bytes a row.
+  table.sorted = undefined;
   try {
-    return adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings });
+    return adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings, sorted });
   } catch (error) {
     if (!(error instanceof TooFewTestsError || error instanceof ZeroWeightsError)) throw error;
     const values = table.familyValues[error.family] ?? [];

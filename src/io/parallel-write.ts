@@ -16,6 +16,7 @@ import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
 import { type InputSource, rangeSource, readAt } from './source.js';
 import type { FileHandle } from 'node:fs/promises';
+import { releaseMemory } from './release-memory.js';
 import { temporaryFile } from './spill.js';
 import { checkRowCount, writeTable } from './write-table.js';
 
@@ -31,6 +32,8 @@ export async function writeTableInParts(
   rows: number,
   split: SplitPoint,
 ): Promise<void> {
+  // The sort's working arrays and the procedures' own are garbage by now: given back before the writing.
+  releaseMemory();
   const fd = (source.descriptor as () => number)();
   /** Writes the part from the split on in this thread, after the first. */
   const writeSecondHere = (): Promise<number> =>

@@ -9,6 +9,7 @@ import { ByteSink } from './byte-sink.js';
 import { plannedColumns } from './column-plan.js';
 import type { PartJob, PartOutcome, ReadPartJob, WritePartJob } from './parts.js';
 import { type ReadPart, readTablePart } from './read-table.js';
+import { releaseMemory } from './release-memory.js';
 import { type InputSource, rangeSource } from './source.js';
 import { writeTable } from './write-table.js';
 
@@ -43,14 +44,14 @@ async function writePart(job: WritePartJob, id: number): Promise<{ written: numb
 }
 
 function readPart(job: ReadPartJob, id: number): Promise<ReadPart> {
-  return readTablePart(partSource(job, id), job.options, job.line);
+  return readTablePart(partSource(job, id), job.options, job.line, job.sort);
 }
 
 /** The buffers of a read part's arrays, moved rather than copied to the main thread. */
 function buffersOf(done: unknown): ArrayBuffer[] {
   if (typeof done !== 'object' || done === null || !('p' in done)) return [];
   const part = done as ReadPart;
-  return [part.p, part.weights, part.familyIds].flatMap((array) => (array ? [array.buffer as ArrayBuffer] : []));
+  return [part.p, part.weights, part.familyIds, part.sorted?.order, part.sorted?.sorted].flatMap((array) => (array ? [array.buffer as ArrayBuffer] : []));
 }
 
 parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: number }) => {
@@ -61,7 +62,11 @@ parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: num
   const { id, job } = message;
   const work: Promise<unknown> = job.kind === 'write' ? writePart(job, id) : readPart(job, id);
   work.then(
-    (done) => parentPort?.postMessage({ id, outcome: { done } satisfies PartOutcome<unknown> }, buffersOf(done)),
+    (done) => {
+      parentPort?.postMessage({ id, outcome: { done } satisfies PartOutcome<unknown> }, buffersOf(done));
+      // This thread is idle until its next job, and would not collect by itself.
+      releaseMemory();
+    },
     (error: unknown) =>
       parentPort?.postMessage({
         id,

@@ -6,12 +6,14 @@ import { readSync } from 'node:fs';
 import { DataError, UsageError, quoteText } from '../errors.js';
 import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type RecordView, fieldText } from './csv-scan.js';
+import { type Sorted, mergeSorted, sortAscendingInPlace } from '../procedures/sorting.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
 import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
+import { releaseMemory } from './release-memory.js';
 import { peek, scanInput } from './scan-input.js';
 import { type InputSource, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
@@ -118,6 +120,13 @@ export interface Table {
   readonly notices: readonly Notice[];
   /** The first data record at or past the middle of the input, when it can be read by position. */
   readonly split?: SplitPoint;
+  /**
+   * p sorted, as sortAscending(p) gives it, when the two parts of the table
+   * were read and sorted in two threads (a table with no family columns,
+   * weights or missing p-values). Whoever uses it clears it, so that it is
+   * not kept longer than needed (12 bytes a row).
+   */
+  sorted?: Sorted | undefined;
 }
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
@@ -304,7 +313,10 @@ function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number,
 
 /** Reads the p-values and families of a table (the first pass). */
 export async function readTable(source: InputSource, options: ReadOptions): Promise<Table> {
-  return (await readRecords(source, options)).table;
+  const { table, inTwoParts } = await readRecords(source, options);
+  // The parts as the threads made them, merged into the table's arrays, are garbage now.
+  if (inTwoParts) releaseMemory();
+  return table;
 }
 
 /** What a worker thread reads of a later part of a table (parts.ts), by data row of the part. */
@@ -315,6 +327,8 @@ export interface ReadPart {
   readonly familyIds?: Int32Array | undefined;
   readonly familyKeys: readonly string[];
   readonly decimalComma: boolean;
+  /** p sorted, when asked for and p has no missing values (there are no families or weights then). */
+  readonly sorted?: Sorted | undefined;
 }
 
 /**
@@ -323,10 +337,11 @@ export interface ReadPart {
  * rejects: the main thread then reads the part itself, so that what it
  * says is what one thread would say.
  */
-export async function readTablePart(source: InputSource, options: ReadOptions & { readonly shape: TableShape }, firstLine: number): Promise<ReadPart> {
-  const { table, familyKeys } = await readRecords(source, options, firstLine);
+export async function readTablePart(source: InputSource, options: ReadOptions & { readonly shape: TableShape }, firstLine: number, sort: boolean): Promise<ReadPart> {
+  const { table, familyKeys, missingRows } = await readRecords(source, options, firstLine);
   if (table.notices.length > 0) throw new Error(`${source.name}: the part has values to remark on`);
   return {
+    sorted: sort && missingRows === 0 ? sortAscendingInPlace(table.p.slice()) : undefined,
     p: table.p,
     weights: table.weights,
     familyIds: table.familyColumns.length > 0 ? table.families.ids : undefined,
@@ -361,11 +376,15 @@ function endingAt(source: InputSource, at: number): InputSource {
 }
 
 /** The table, and the key of each family (the bytes of its values), in the order of its index. */
-async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[] }> {
+async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[]; missingRows: number; inTwoParts: boolean }> {
   const known = options.shape;
   // Reading in two parts: for a table read from its start, when only p-values, weights and families are wanted.
   const inTwoParts = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined;
   if (inTwoParts) warmUp(source);
+  // Each thread then sorts its own part too, when the table is one family with no weights: the sort is
+  // most of the time between the passes, and merging two sorted parts is linear.
+  const sortParts = inTwoParts && (options.familyColumns ?? []).length === 0 && options.weightsColumn === undefined;
+  let missingRows = 0;
   const head = known ? undefined : await peek(source, 1 << 16);
   if (head) refuseUnreadable(head, source.name);
   const delimiter = known?.delimiter ?? options.delimiter ?? sniffDelimiter(head as Buffer, source.extension);
@@ -482,6 +501,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
       if (decimalCommaAllowed && !decimalCommaSeen && text.includes(',')) decimalCommaSeen = true;
       if (converter ? value === 0 : underflowed(text, value)) remark(converter ? 'computedUnderflow' : 'underflow', view, table, text);
     }
+    if (value === 'missing') missingRows++;
     p.push(value === 'missing' ? NaN : value);
     if (weightsColumn >= 0) {
       const weight = value === 'missing' ? NaN : readRowWeight(view, table);
@@ -580,10 +600,13 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
   const startSecondHalf = (at: number): void => {
-    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: Infinity, line: 1, options: { ...options, shape: shape as TableShape } });
+    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: Infinity, line: 1, options: { ...options, shape: shape as TableShape }, sort: sortParts });
   };
   /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
+  let sorted: Sorted | undefined;
   const takeSecondHalf = async (at: number, line: number): Promise<boolean> => {
+    // This part is sorted while the worker finishes its own (it sorts its part when asked to).
+    const ownSorted = sortParts && missingRows === 0 ? sortAscendingInPlace(p.toArray()) : undefined;
     let part: ReadPart;
     try {
       part = await (second as RunningPart<ReadPart>).result;
@@ -592,6 +615,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     }
     split ??= { offset: at, row: p.length, line };
     addPart(part);
+    if (ownSorted && part.sorted) sorted = mergeSorted(ownSorted, part.sorted);
     return true;
   };
   try {
@@ -657,6 +681,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     decimalComma: decimalCommaSeen,
     notices,
     ...(split ? { split } : {}),
+    ...(sorted ? { sorted } : {}),
   };
-  return { table, familyKeys: [...familyIndex.keys()] };
+  return { table, familyKeys: [...familyIndex.keys()], missingRows, inTwoParts: second !== undefined };
 }
