@@ -3,10 +3,13 @@
 // records, the same bytes, the same line numbers and the same errors, on a
 // corpus of messy tables, cut into blocks anywhere.
 import { describe, expect, it } from 'vitest';
-import { RecordScanner, type RecordView } from '../src/io/csv-scan.js';
+import { type PlainColumn, RecordScanner, type RecordView } from '../src/io/csv-scan.js';
+import { NOT_SIMPLE, simpleDecimal } from '../src/io/number-bytes.js';
 import { seededRandom } from './helpers/random.js';
 
 interface ScannedRecord {
+  /** Where the record starts in the whole input. */
+  offset: number;
   line: number;
   gap: string;
   content: string;
@@ -21,12 +24,13 @@ interface Outcome {
 }
 
 /** Scans bytes fed in blocks ending at `cuts`, as scanInput feeds them, carrying unfinished records. */
-function scanInBlocks(bytes: Buffer, delimiter: number, fastPath: boolean, cuts: readonly number[], loneCrEndsLine = false, splitFields = true): Outcome {
+function scanInBlocks(bytes: Buffer, delimiter: number, fastPath: boolean, cuts: readonly number[], loneCrEndsLine = false, splitFields = true, column?: PlainColumn): Outcome {
   const scanner = new RecordScanner(delimiter, 'messy.csv', loneCrEndsLine, { fastPath, splitFields });
   const records: ScannedRecord[] = [];
   const onRecord = (view: RecordView): void => {
     const { buf } = view;
     records.push({
+      offset: view.bufOffset + view.contentStart,
       line: view.line,
       gap: buf.toString('latin1', view.gapStart, view.contentStart),
       content: buf.toString('latin1', view.contentStart, view.contentEnd),
@@ -41,7 +45,8 @@ function scanInBlocks(bytes: Buffer, delimiter: number, fastPath: boolean, cuts:
     for (const cut of [...cuts, bytes.length]) {
       const block = Buffer.concat([carry, bytes.subarray(from, cut)]);
       const atEnd = cut === bytes.length;
-      carry = block.subarray(scanner.scan(block, 0, atEnd, onRecord));
+      scanner.bufOffset = from - carry.length;
+      carry = block.subarray(scanner.scan(block, 0, atEnd, onRecord, column));
       from = cut;
     }
   } catch (error) {
@@ -132,6 +137,59 @@ describe('fast and general paths give identical records and bytes', () => {
       const length = Buffer.byteLength(text, 'latin1');
       const cuts = Array.from({ length: Math.floor(random() * 4) }, () => Math.floor(random() * (length + 1))).sort((a, b) => a - b);
       expectSame(text, delimiter.charCodeAt(0), cuts);
+    }
+  });
+});
+
+describe('the column reader takes exactly the records it should, and hands over the rest as the general path reports them', () => {
+  /** The general path's records, each either taken by the reader (its value) or handed over (the record). */
+  function expected(general: Outcome, fields: number, field: number, until: number): ({ value: number } | ScannedRecord)[] {
+    return general.records.map((record) => {
+      // Taken: a whole line with no quote, ended by a line feed, starting before `until`, with the right fields.
+      const eligible = record.terminator.includes('\n') && !record.content.includes('"') && record.offset < until && record.fields.length === fields;
+      if (!eligible) return record;
+      const text = Buffer.from(record.fields[field] as string, 'latin1');
+      const value = simpleDecimal(text, 0, text.length);
+      return value === NOT_SIMPLE || value > 1 ? record : { value };
+    });
+  }
+
+  function expectColumn(text: string, delimiter: number, cuts: readonly number[], fields: number, field: number, until: number): void {
+    const bytes = Buffer.from(text, 'latin1');
+    const general = scanInBlocks(bytes, delimiter, false, cuts);
+    const taken: number[] = [];
+    const column: PlainColumn = { fields, field, until, take: (value) => taken.push(value) };
+    const outcome = scanInBlocks(bytes, delimiter, true, cuts, false, true, column);
+    expect(outcome.error).toBe(general.error);
+    expect(outcome.trailing).toBe(general.trailing);
+    const want = expected(general, fields, field, until);
+    expect(taken).toEqual(want.flatMap((event) => ('value' in event ? [event.value] : [])));
+    // Handed over with the same line, gap, fields and terminator.
+    expect(outcome.records).toEqual(want.filter((event): event is ScannedRecord => 'line' in event));
+  }
+
+  it('on the messy tables, for every field, cut at every byte', () => {
+    for (const text of Object.values(messy)) {
+      const length = Buffer.byteLength(text, 'latin1');
+      for (const fields of [1, 2, 3]) {
+        for (let field = 0; field < fields; field++) {
+          expectColumn(text, COMMA, [], fields, field, Infinity);
+          for (let cut = 0; cut <= length; cut++) expectColumn(text, COMMA, [cut], fields, field, Infinity);
+        }
+      }
+    }
+  });
+
+  it('only before the offset it is given, on 500 random tables cut into random blocks', () => {
+    const random = seededRandom(23);
+    for (let table = 0; table < 500; table++) {
+      const delimiter = random() < 0.5 ? ',' : '\t';
+      const text = randomTable(random, delimiter);
+      const length = Buffer.byteLength(text, 'latin1');
+      const cuts = Array.from({ length: Math.floor(random() * 4) }, () => Math.floor(random() * (length + 1))).sort((a, b) => a - b);
+      const fields = 1 + Math.floor(random() * 5);
+      const until = random() < 0.5 ? Infinity : Math.floor(random() * (length + 1));
+      expectColumn(text, delimiter.charCodeAt(0), cuts, fields, Math.floor(random() * fields), until);
     }
   });
 });

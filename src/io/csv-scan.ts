@@ -22,6 +22,7 @@
 // O(bytes) either way.
 
 import { DataError } from '../errors.js';
+import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 
 const QUOTE = 0x22;
 const LF = 0x0a;
@@ -89,6 +90,22 @@ export interface ScanOptions {
   readonly firstLine?: number;
 }
 
+/**
+ * One column of numbers taken straight from the bytes, for a reader that
+ * wants only that (the first pass over a table without families or weights):
+ * a line on the fast path with exactly `fields` fields, and in field `field`
+ * a plain decimal from 0 to 1 (number-bytes.ts), gives take() its value and
+ * no view; every other record goes to onRecord as usual. Only records that
+ * start before `until` (an offset in the whole input) are taken, so that the
+ * reader sees the record there. Off while fields is 0.
+ */
+export interface PlainColumn {
+  fields: number;
+  field: number;
+  until: number;
+  take(value: number): void;
+}
+
 export class RecordScanner {
   /** Line number of the next byte to scan. */
   line: number;
@@ -143,7 +160,7 @@ export class RecordScanner {
    * from there and passes them again, with more input, on the next call.
    * With atEnd, the input ends at buf.length and every record is complete.
    */
-  scan(buf: Buffer, from: number, atEnd: boolean, onRecord: (view: RecordView) => void): number {
+  scan(buf: Buffer, from: number, atEnd: boolean, onRecord: (view: RecordView) => void, column?: PlainColumn): number {
     const view = this.view;
     view.buf = buf;
     view.bufOffset = this.bufOffset;
@@ -162,6 +179,18 @@ export class RecordScanner {
     let nextQuote = -1;
     for (;;) {
       while (fastPath) {
+        if (column !== undefined && column.fields > 0 && this.bufOffset + pos < column.until) {
+          const next = this.plainLine(buf, pos, column);
+          if (next >= 0) {
+            this.line++;
+            this.atInputStart = false;
+            pos = next;
+            consumed = pos;
+            gapStart = pos;
+            lineAtConsumed = this.line;
+            continue;
+          }
+        }
         let lineEnd: number;
         if (splitFields) {
           lineEnd = this.fastLine(buf, pos);
@@ -251,6 +280,49 @@ export class RecordScanner {
     view.ends[fields] = pos > fieldStart && bytes[pos - 1] === CR ? pos - 1 : pos;
     view.fieldCount = fields + 1;
     return pos;
+  }
+
+  /**
+   * The column reader's path, for the line at start: where the next line
+   * starts, once the line's value is given to column.take; -1 when the line
+   * is not one it takes (a quote, a blank line, another number of fields, a
+   * value that is not a plain decimal from 0 to 1, the end of the block), for
+   * the usual paths to decide. Reads the field's bounds as fastLine would.
+   */
+  private plainLine(bytes: Buffer, start: number, column: PlainColumn): number {
+    const delimiter = this.delimiter;
+    // A byte above LF, the quote and the delimiter is ordinary (digits and letters, with a
+    // comma or tab delimiter): one comparison decides it.
+    const highest = Math.max(LF, QUOTE, delimiter);
+    const wanted = column.field;
+    const length = bytes.length;
+    let fields = 0;
+    let fieldStart = start;
+    let valueStart = -1;
+    let valueEnd = -1;
+    let pos = start;
+    for (; pos < length; pos++) {
+      const byte = bytes[pos] as number;
+      if (byte > highest) continue;
+      if (byte === LF) break;
+      if (byte === QUOTE) return -1;
+      if (byte !== delimiter) continue;
+      if (fields === wanted) {
+        valueStart = fieldStart;
+        valueEnd = pos;
+      }
+      fields++;
+      fieldStart = pos + 1;
+    }
+    if (pos === length || fields + 1 !== column.fields) return -1;
+    if (fields === wanted) {
+      valueStart = fieldStart;
+      valueEnd = pos > fieldStart && bytes[pos - 1] === CR ? pos - 1 : pos;
+    }
+    const value = simpleDecimal(bytes, valueStart, valueEnd);
+    if (value === NOT_SIMPLE || value > 1) return -1;
+    column.take(value);
+    return pos + 1;
   }
 
   /** Scans one record starting at pos into the view; false if it is incomplete. */

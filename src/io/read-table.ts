@@ -5,7 +5,7 @@
 import { readSync } from 'node:fs';
 import { DataError, UsageError, quoteText } from '../errors.js';
 import { type FamilyGrouping, singleFamily } from '../families.js';
-import { type RecordView, fieldText } from './csv-scan.js';
+import { type PlainColumn, type RecordView, fieldText } from './csv-scan.js';
 import { type Sorted, mergeSorted, sortAscendingInPlace } from '../procedures/sorting.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
@@ -399,6 +399,8 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     if (remarked[kind].count++ === 0) remarked[kind].first = `${source.name}:${view.line}: ${columnLabel(table, pColumn)}: ${quoteText(text)}`;
   };
   const p = new Growable((size) => new Float64Array(size));
+  /** The scanner's column reader: what readRow does for a row whose p-value is a plain decimal, and nothing else to read. */
+  const plain: PlainColumn = { fields: 0, field: 0, until: Infinity, take: (value) => p.push(value) };
   const familyIds = new Growable((size) => new Int32Array(size));
   const familyIndex = new Map<string, number>();
   const familyValues: string[][] = [];
@@ -449,6 +451,12 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
       if (claimedColumn === pColumn) {
         throw new UsageError(`--adjusted-column ${quoteText(options.claimedColumn)}: is the raw p-value column; name the column of adjusted values (or the raw one with --p-column)`);
       }
+    }
+    // Rows with nothing to read but a plain p-value are taken by the scanner's column reader.
+    const plainRows = converter === undefined && familyColumns.length === 0 && weightsColumn < 0 && claimedColumn < 0 && !options.lineNumbers && !options.pPrecision && !options.keyColumns;
+    if (plainRows) {
+      plain.fields = shape.columnCount;
+      plain.field = pColumn;
     }
     if (options.keyColumns) {
       keyTrackers = Array.from({ length: shape.columnCount }, (_, column) => column)
@@ -594,6 +602,8 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
 
   if (known) useShape(known);
   const middle = source.descriptor && source.size !== undefined && firstLine === undefined ? source.size / 2 : Infinity;
+  // The record at the middle is read here, to note it as the split point.
+  plain.until = middle;
   let split: SplitPoint | undefined;
   // The second half is read by a worker thread (parts.ts) when the table is large and read from a
   // file; this thread stops where it starts.
@@ -628,9 +638,11 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
         }
         if (split === undefined && view.bufOffset + view.contentStart >= middle) {
           split = { offset: view.bufOffset + view.contentStart, row: p.length, line: view.line };
+          plain.until = Infinity;
         }
         readRow(view, shape as TableShape);
       },
+      column: plain,
       ...(half === undefined ? {} : { pause: { at: half, resume: async (line: number) => !(second && (await takeSecondHalf(half, line))) } }),
     });
   } finally {

@@ -2,7 +2,7 @@
 // blocks of at least BLOCK_SIZE before scanning, and the unfinished record at
 // the end of a block is carried into the next one.
 
-import { RecordScanner, type RecordView, type ScanOptions } from './csv-scan.js';
+import { type PlainColumn, RecordScanner, type RecordView, type ScanOptions } from './csv-scan.js';
 import type { Dialect } from './dialect.js';
 import type { InputSource } from './source.js';
 
@@ -16,6 +16,8 @@ const JOIN = 1 << 16;
 
 export interface ScanHandlers {
   record(view: RecordView): void;
+  /** A column of plain numbers to take without a view per record (csv-scan.ts). */
+  readonly column?: PlainColumn;
   /** Called after each block; lets a writer flush with back-pressure. */
   afterBlock?(): Promise<void>;
   /** The bytes after the last record (trailing blank lines), once at the end. */
@@ -57,7 +59,7 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     else if (chunk && chunk.length > JOIN && carry.length < JOIN) {
       // Only the records across the join are scanned in a copy; the rest of the chunk where it is.
       scanner.bufOffset = carryOffset;
-      const consumed = scanner.scan(Buffer.concat([carry, chunk.subarray(0, JOIN)]), 0, false, handlers.record);
+      const consumed = scanner.scan(Buffer.concat([carry, chunk.subarray(0, JOIN)]), 0, false, handlers.record, handlers.column);
       if (consumed >= carry.length) {
         block = chunk;
         from = consumed - carry.length;
@@ -70,7 +72,7 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     pending = [];
     pendingSize = 0;
     scanner.bufOffset = blockOffset;
-    const consumed = scanner.scan(block, from, atEnd, handlers.record);
+    const consumed = scanner.scan(block, from, atEnd, handlers.record, handlers.column);
     carry = block.subarray(consumed);
     carryOffset = blockOffset + consumed;
     if (handlers.afterBlock) await handlers.afterBlock();
