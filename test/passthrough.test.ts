@@ -7,6 +7,7 @@ import { stringify } from 'csv-stringify/sync';
 import { describe, expect, it } from 'vitest';
 import { adjustWithinFamilies } from '../src/families.js';
 import { ByteSink } from '../src/io/byte-sink.js';
+import { plannedColumns } from '../src/io/column-plan.js';
 import { readTable } from '../src/io/read-table.js';
 import { bufferSource } from '../src/io/source.js';
 import { writeTable } from '../src/io/write-table.js';
@@ -56,7 +57,9 @@ describe('byte-for-byte passthrough on random tables', () => {
         const line = stringify([record], { delimiter, record_delimiter: ending, quoted, quoted_match: /[\r\n]/, quoted_empty: columns === 1 });
         return line.slice(0, line.length - ending.length);
       });
-      const input = raws.map((raw) => raw + ending).join('');
+      // Blank lines between records are not records, and are kept where they are.
+      const blank = raws.map((_, i) => (i > 0 && random() < 0.15 ? ending : ''));
+      const input = raws.map((raw, i) => blank[i] + raw + ending).join('');
       const source = bufferSource(Buffer.from(input), 'random.csv');
       const table = await readTable(source, { delimiter: delimiter.charCodeAt(0), header: true, pColumn: 'p' });
       expect(Array.from(table.p)).toEqual(p);
@@ -71,10 +74,15 @@ describe('byte-for-byte passthrough on random tables', () => {
       const expected = raws
         .map((raw, i) => {
           const cells = i === 0 ? ['adj_bh', 'rej_bh'] : columnsOut.map((column) => column.cell(i - 1));
-          return raw + delimiter + cells.join(delimiter) + ending;
+          return blank[i] + raw + delimiter + cells.join(delimiter) + ending;
         })
         .join('');
       expect(Buffer.concat(out.chunks).toString('utf8')).toBe(expected);
+      // The same cells as a plan of numbers and decisions, which the writer writes from the values.
+      const planned = plannedColumns({ columns: [{ name: 'adj_bh', kind: 'number', values }, { name: 'rej_bh', kind: 'decision', values }], alpha: 0.05, decimalComma: false });
+      const fromValues = new Collect();
+      await writeTable(source, table.shape, planned, { delimiter: table.shape.delimiter }, new ByteSink(fromValues), p.length);
+      expect(Buffer.concat(fromValues.chunks).toString('utf8')).toBe(expected);
     }
   });
 });

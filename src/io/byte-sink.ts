@@ -18,6 +18,40 @@ const QUOTE = 0x22;
 const LF = 0x0a;
 const CR = 0x0d;
 
+/** PlainCells.kinds: a number (as number-text.ts writes it) or a decision (true/false against alpha). */
+export const NUMBER_CELL = 0;
+export const DECISION_CELL = 1;
+
+/** New cells that are all numbers or decisions, with no quoting to weigh: written straight from their values. */
+export interface PlainCells {
+  readonly kinds: Uint8Array;
+  /** By cell, by data row. */
+  readonly values: readonly Float64Array[];
+  /** By cell: the level a decision compares with (unused for numbers). */
+  readonly alphas: Float64Array;
+  readonly decimalComma: boolean;
+  /** Bytes the cells can take at most. */
+  readonly room: number;
+}
+
+/** "true" where value <= alpha, "false" above, nothing for NaN, written at `at`; returns where it ends. */
+function writeDecision(value: number, alpha: number, block: Uint8Array, at: number): number {
+  let size = at;
+  if (value <= alpha) {
+    block[size++] = 0x74; // t
+    block[size++] = 0x72; // r
+    block[size++] = 0x75; // u
+    block[size++] = 0x65; // e
+  } else if (value > alpha) {
+    block[size++] = 0x66; // f
+    block[size++] = 0x61; // a
+    block[size++] = 0x6c; // l
+    block[size++] = 0x73; // s
+    block[size++] = 0x65; // e
+  }
+  return size;
+}
+
 export class ByteSink {
   private block: Buffer = Buffer.allocUnsafeSlow(BLOCK_SIZE);
   private blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
@@ -46,6 +80,34 @@ export class ByteSink {
   pushBytes(buf: Uint8Array, start: number, end: number): void {
     const length = end - start;
     if (this.size + length > this.block.length) this.nextBlock(length);
+    this.copy(buf, start, end);
+  }
+
+  /**
+   * Appends a record copied whole, buf[start, end), then its new cells for
+   * data row `row`, then its line terminator buf[end, next): the common row
+   * of a large table, done with one check for room.
+   */
+  pushRecord(buf: Uint8Array, start: number, end: number, next: number, delimiter: number, cells: PlainCells, row: number): void {
+    const room = next - start + cells.room;
+    if (this.size + room > this.block.length) this.nextBlock(room);
+    this.copy(buf, start, end);
+    const block = this.block;
+    let size = this.size;
+    const { kinds, values, alphas, decimalComma } = cells;
+    for (let k = 0; k < kinds.length; k++) {
+      const value = (values[k] as Float64Array)[row] as number;
+      block[size] = delimiter;
+      if (kinds[k] === NUMBER_CELL) size = writeNumber(value, block, size + 1, decimalComma);
+      else size = writeDecision(value, alphas[k] as number, block, size + 1);
+    }
+    for (let pos = end; pos < next; pos++) block[size++] = buf[pos] as number;
+    this.size = size;
+  }
+
+  /** Copies buf[start, end) to the block, which has room for it. */
+  private copy(buf: Uint8Array, start: number, end: number): void {
+    const length = end - start;
     const block = this.block;
     if (length > SHORT) {
       block.set(buf.subarray(start, end), this.size);
@@ -82,22 +144,8 @@ export class ByteSink {
   /** Appends a delimiter byte and then "true" where value <= alpha, "false" above, nothing for NaN. */
   pushDecisionCell(delimiter: number, value: number, alpha: number): void {
     if (this.size + 6 > this.block.length) this.nextBlock(6);
-    const block = this.block;
-    let size = this.size;
-    block[size++] = delimiter;
-    if (value <= alpha) {
-      block[size++] = 0x74; // t
-      block[size++] = 0x72; // r
-      block[size++] = 0x75; // u
-      block[size++] = 0x65; // e
-    } else if (value > alpha) {
-      block[size++] = 0x66; // f
-      block[size++] = 0x61; // a
-      block[size++] = 0x6c; // l
-      block[size++] = 0x73; // s
-      block[size++] = 0x65; // e
-    }
-    this.size = size;
+    this.block[this.size] = delimiter;
+    this.size = writeDecision(value, alpha, this.block, this.size + 1);
   }
 
   pushText(text: string): void {

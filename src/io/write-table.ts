@@ -5,7 +5,8 @@
 
 import { DataError } from '../errors.js';
 import { alignedTable } from '../text-table.js';
-import type { ByteSink } from './byte-sink.js';
+import { type ByteSink, DECISION_CELL, NUMBER_CELL, type PlainCells } from './byte-sink.js';
+import { LONGEST_NUMBER } from './number-text.js';
 import { COMMA } from './dialect.js';
 import { type RecordView, fieldBytes, fieldText } from './csv-scan.js';
 import type { TableShape } from './read-table.js';
@@ -120,9 +121,16 @@ export async function writeTable(
   const copyFields = format.delimiter === shape.delimiter;
   // Records copied whole need only their bounds, not their fields.
   const wholeRecords = copyFields && replacing.size === 0;
+  // The common table: records copied whole, and new cells that are all numbers and decisions.
+  const cells = wholeRecords ? plainCells(appended, outDelimiter) : undefined;
   await scanInput(source, { ...shape, splitFields: !wholeRecords, firstLine }, {
     record(view) {
       const { buf } = view;
+      if (cells && row >= 0) {
+        sink.pushRecord(buf, view.gapStart, view.contentEnd, view.next, outDelimiter, cells, row);
+        row++;
+        return;
+      }
       if (wholeRecords) {
         sink.pushBytes(buf, view.gapStart, view.contentEnd);
       } else {
@@ -165,6 +173,30 @@ export async function writeTable(
   if (!part) checkRowCount(source, row, expectedRows);
   await sink.flush(true);
   return row;
+}
+
+/** The new cells as PlainCells, if every one is a number or a decision written without quotes; undefined otherwise. */
+function plainCells(appended: readonly OutputColumn[], delimiter: number): PlainCells | undefined {
+  const kinds: number[] = [];
+  const values: Float64Array[] = [];
+  const alphas: number[] = [];
+  let decimalComma = false;
+  for (const { numbers, decisions } of appended) {
+    // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
+    if (numbers && !(numbers.decimalComma && delimiter === COMMA)) {
+      kinds.push(NUMBER_CELL);
+      values.push(numbers.values);
+      alphas.push(0);
+      decimalComma ||= numbers.decimalComma;
+    } else if (decisions) {
+      kinds.push(DECISION_CELL);
+      values.push(decisions.values);
+      alphas.push(decisions.alpha);
+    } else return undefined;
+  }
+  // One setting for every number: columns that differ in it take the general way.
+  if (appended.some(({ numbers }) => numbers && numbers.decimalComma !== decimalComma)) return undefined;
+  return { kinds: Uint8Array.from(kinds), values, alphas: Float64Array.from(alphas), decimalComma, room: appended.length * (1 + LONGEST_NUMBER) };
 }
 
 export function checkRowCount(source: InputSource, rows: number, expected: number): void {
