@@ -53,6 +53,9 @@ const ZERO = 0x30;
 /** Bytes a number's text can take: "-1.2345678901234567e-308" is 24. */
 export const LONGEST_NUMBER = 25;
 
+/** "00", "01", ... "99" as bytes: PAIRS[2k], PAIRS[2k + 1] are the digits of k. */
+const PAIRS = Uint8Array.from({ length: 200 }, (_, i) => ZERO + (i % 2 === 0 ? Math.floor(i / 20) : (i >> 1) % 10));
+
 const word = new Float64Array(1);
 const wordBits = new Uint32Array(word.buffer);
 
@@ -138,16 +141,23 @@ function writeDigits(base: number, k: number, digits: number, zeros: number, byt
   let rest = lower | 0;
   let top = upper | 0;
   const end = at + digits;
-  for (let pos = end - 1; pos >= end - 8; pos--) {
-    const tenth = (rest / 10) | 0;
-    bytes[pos] = ZERO + rest - 10 * tenth;
-    rest = tenth;
+  // Two digits at a time from a table: half the divisions.
+  for (let pos = end - 2; pos >= end - 8; pos -= 2) {
+    const hundredth = (rest / 100) | 0;
+    const pair = 2 * (rest - 100 * hundredth);
+    bytes[pos] = PAIRS[pair] as number;
+    bytes[pos + 1] = PAIRS[pair + 1] as number;
+    rest = hundredth;
   }
-  for (let pos = end - 9; pos >= at; pos--) {
-    const tenth = (top / 10) | 0;
-    bytes[pos] = ZERO + top - 10 * tenth;
-    top = tenth;
+  let pos = end - 9;
+  for (; pos > at; pos -= 2) {
+    const hundredth = (top / 100) | 0;
+    const pair = 2 * (top - 100 * hundredth);
+    bytes[pos - 1] = PAIRS[pair] as number;
+    bytes[pos] = PAIRS[pair + 1] as number;
+    top = hundredth;
   }
+  if (pos === at) bytes[pos] = ZERO + top;
   let last = end;
   if (trim) while (bytes[last - 1] === ZERO) last--;
   return last;
