@@ -64,8 +64,9 @@ parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: num
   work.then(
     (done) => {
       parentPort?.postMessage({ id, outcome: { done } satisfies PartOutcome<unknown> }, buffersOf(done));
-      // This thread is idle until its next job, and would not collect by itself.
-      releaseMemory();
+      // A read leaves this thread idle until its write job, and it would not collect by itself
+      // (after the write the process ends, and a collection would only hold up its exit).
+      if (job.kind === 'read') releaseMemory();
     },
     (error: unknown) =>
       parentPort?.postMessage({
