@@ -149,7 +149,15 @@ export function adjustWithinFamilies(
   // memory, so that a worker thread writing part of the table (io/parallel-write.ts) reads the
   // values where they are rather than a copy.
   const made: (Float64Array | undefined)[] = methods.map(() => undefined);
-  const adjustedFor = (k: number): Float64Array => (made[k] ??= new Float64Array(new SharedArrayBuffer(8 * p.length)).fill(NaN));
+  // Rows without a p-value keep NaN; when there are none, every value is written below.
+  const complete = missing.every((count) => count === 0);
+  const adjustedFor = (k: number): Float64Array => {
+    if (made[k] === undefined) {
+      const values = new Float64Array(new SharedArrayBuffer(8 * p.length));
+      made[k] = complete ? values : values.fill(NaN);
+    }
+    return made[k];
+  };
   const outcomes: FamilyOutcome[][] = [];
   for (let f = 0; f < count; f++) {
     const from = start[f];
