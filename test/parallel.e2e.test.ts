@@ -126,6 +126,33 @@ describe('writing in two parts', () => {
     expect(out.length).toBeGreaterThan(input.length);
   });
 
+  it('reads standard input redirected from a file by position, and leaves it read to its end', () => {
+    const name = write('redirected.csv', table('id,p\n', 8000, (i) => `r${i},${p()}\n`));
+    const fromFile = run(['adjust', name, '-q'], '0');
+    const redirected = (minimum: string): { status: number | null; stdout: Buffer; stderr: string } => {
+      const fd = openSync(join(work, name), 'r');
+      try {
+        const result = spawnSync(process.execPath, [CLI, 'adjust', '-q'], { stdio: [fd, 'pipe', 'pipe'], cwd: work, env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: minimum } });
+        return { status: result.status, stdout: result.stdout, stderr: result.stderr.toString() };
+      } finally {
+        closeSync(fd);
+      }
+    };
+    for (const minimum of ['0', ONE_THREAD]) {
+      const result = redirected(minimum);
+      expect(result.stderr).toBe('');
+      expect(result.status).toBe(0);
+      expect(result.stdout.equals(fromFile.stdout)).toBe(true);
+    }
+    // As after any command that reads its input through, the next command sharing it finds it at the end;
+    // one sharing a file the shell has read part of gets the rest (read as it comes, from where it stood).
+    const shell = (script: string): string => spawnSync('sh', ['-c', script], { cwd: work, env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: '0' } }).stdout.toString();
+    expect(shell(`{ "${process.execPath}" "${CLI}" adjust -q > /dev/null; wc -c; } < ${name}`).trim()).toBe('0');
+    const rest = shell(`{ head -n 1 > /dev/null; "${process.execPath}" "${CLI}" adjust --no-header --p-column 2 -q; } < ${name}`);
+    expect(rest.split('\n')[0]).toMatch(/^r0,/);
+    expect(rest.split('\n')).toHaveLength(8001);
+  });
+
   it('gives the summary of one thread with families first seen in the second half, and weights', () => {
     const name = write('families.csv', table('id,chrom,w,p\n', 6000, (i) => `r${i},${i < 3000 ? 1 + (i % 3) : 1 + (i % 7)},${1 + (i % 4)},${p()}\n`));
     const out = sameBothWays(['adjust', name, '--family', 'chrom', '--methods', 'bh,holm', '--weights', 'w']);

@@ -13,7 +13,7 @@ import { DELIMITERS } from '../io/dialect.js';
 import { isUnsignedNumberText } from '../io/p-value-text.js';
 import { routeOutput } from '../io/atomic-file.js';
 import { decompressedIfGzip } from '../io/gzip.js';
-import { type InputSource, fileSource } from '../io/source.js';
+import { type InputSource, fileSource, stdinFileSource } from '../io/source.js';
 import { spilledSource } from '../io/spill.js';
 import { type StatisticKind, type Tail, STATISTIC_KINDS, TAILS_ALLOWED, DEGREES_NEEDED, defaultTail } from '../distributions/p-from-statistic.js';
 import type { DegreesSource, ValueReading } from '../io/statistic-text.js';
@@ -194,7 +194,7 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
     if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
     }
-    return decompressedIfGzip(await spilledSource(process.stdin, '<stdin>'));
+    return decompressedIfGzip(stdinFileSource() ?? (await spilledSource(process.stdin, '<stdin>')));
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);

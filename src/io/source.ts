@@ -1,9 +1,10 @@
 // Where a table's bytes come from. A source can be read more than once: the
 // first pass collects the p-values, the second writes the table back. Files
-// are simply read again; standard input and pipes are first read to their end
-// (spill.ts), gzip is decompressed on every pass (gzip.ts).
+// are simply read again, and so is standard input redirected from a file;
+// other standard input and pipes are first read to their end (spill.ts),
+// gzip is decompressed on every pass (gzip.ts).
 
-import { closeSync, createReadStream, openSync, read, statSync } from 'node:fs';
+import { closeSync, createReadStream, fstatSync, openSync, read, readFileSync, statSync } from 'node:fs';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
@@ -48,6 +49,51 @@ export function fileSource(path: string): InputSource {
     },
     chunks: () => createReadStream(path, { highWaterMark: READ_SIZE }),
   };
+}
+
+/**
+ * Standard input when it is a regular file read from its start
+ * (famwise adjust < table.csv): read by position, as a file is, rather than
+ * copied to a temporary file first. Undefined for anything else: a pipe, a
+ * terminal, a file a shell has already read part of, or a system where the
+ * position cannot be told (it is read from /proc/self/fdinfo, Linux).
+ */
+export function stdinFileSource(): InputSource | undefined {
+  const fd = 0;
+  let size: number;
+  try {
+    const stat = fstatSync(fd);
+    if (!stat.isFile()) return undefined;
+    size = stat.size;
+    const position = /^pos:\s*(\d+)/m.exec(readFileSync(`/proc/self/fdinfo/${fd}`, 'latin1'));
+    if (position?.[1] !== '0') return undefined;
+  } catch {
+    return undefined;
+  }
+  moveToEnd(fd);
+  return {
+    name: '<stdin>',
+    extension: '',
+    size,
+    descriptor: () => fd,
+    chunks: () => rangeSource('<stdin>', fd, 0, Infinity).chunks(),
+  };
+}
+
+/**
+ * Reads a descriptor in order to its end, in the background, and drops the
+ * bytes: reading by position leaves its offset where it was, and a shell
+ * that shares it ({ famwise ...; next; } < file) expects it at the end, as
+ * after any command that reads its input through.
+ */
+function moveToEnd(fd: number): void {
+  const scratch = Buffer.allocUnsafe(READ_SIZE);
+  const step = (): void => {
+    read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
+      if (!error && bytesRead > 0) step();
+    });
+  };
+  step();
 }
 
 /** Reads up to length bytes at a position of a descriptor, into a new buffer: the bytes read. */
