@@ -9,7 +9,7 @@
 // parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one thread, through
 // the built command line.
 import { spawnSync } from 'node:child_process';
-import { appendFileSync, closeSync, mkdtempSync, openSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, closeSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -151,6 +151,24 @@ describe('writing in two parts', () => {
     const rest = shell(`{ head -n 1 > /dev/null; "${process.execPath}" "${CLI}" adjust --no-header --p-column 2 -q; } < ${name}`);
     expect(rest.split('\n')[0]).toMatch(/^r0,/);
     expect(rest.split('\n')).toHaveLength(8001);
+    // Also when famwise stops early with an error, before a large input could be read through in the background.
+    const large = write('large.csv', `id,p\n${'r,0.5\n'.repeat(6_000_000)}`);
+    expect(shell(`{ "${process.execPath}" "${CLI}" adjust -q --p-column nosuch 2> /dev/null; wc -c; } < ${large}`).trim()).toBe('0');
+  });
+
+  it('reads standard input redirected from a file as it was at the start, when the output is appended to that file', () => {
+    // Larger than a read (4 MB), so that output is written while input is still to be read.
+    const original = readFileSync(join(work, write('grows.csv', table('id,p\n', 500_000, (i) => `r${i},${p()}\n`))));
+    const expected = Buffer.concat([original, run(['adjust', 'grows.csv', '-q'], '0').stdout]);
+    for (const minimum of ['0', ONE_THREAD]) {
+      // Through the same descriptor (>>), and through another process (tee -a).
+      for (const append of ['>> appended.csv', '| tee -a appended.csv > /dev/null']) {
+        writeFileSync(join(work, 'appended.csv'), original);
+        const result = spawnSync('sh', ['-c', `ulimit -f 100000; "${process.execPath}" "${CLI}" adjust -q < appended.csv ${append}`], { cwd: work, env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: minimum } });
+        expect(result.status).toBe(0);
+        expect(readFileSync(join(work, 'appended.csv')).equals(expected)).toBe(true);
+      }
+    }
   });
 
   it('gives the summary of one thread with families first seen in the second half, and weights', () => {

@@ -14,7 +14,7 @@ import type { ByteSink } from './byte-sink.js';
 import { type ColumnsPlan, movableBuffers, planFrom, plannedColumns } from './column-plan.js';
 import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
-import { type InputSource, rangeSource, readAt } from './source.js';
+import { type InputSource, contentEnd, rangeSource, readAt } from './source.js';
 import type { FileHandle } from 'node:fs/promises';
 import { releaseMemory } from './release-memory.js';
 import { temporaryFile } from './spill.js';
@@ -37,7 +37,7 @@ export async function writeTableInParts(
   const fd = (source.descriptor as () => number)();
   /** Writes the part from the split on in this thread, after the first. */
   const writeSecondHere = (): Promise<number> =>
-    writeTable(rangeSource(source.name, fd, split.offset, Infinity), shape, plannedColumns(planFrom(plan, split.row)), format, sink, rows - split.row, { firstLine: split.line });
+    writeTable(rangeSource(source.name, fd, split.offset, contentEnd(source)), shape, plannedColumns(planFrom(plan, split.row)), format, sink, rows - split.row, { firstLine: split.line });
   let temporary: FileHandle;
   try {
     temporary = await temporaryFile();
@@ -52,8 +52,9 @@ export async function writeTableInParts(
     name: source.name,
     fd,
     start: split.offset,
-    // To wherever the file ends, as one thread reads it: a file that grew is then noticed.
-    end: Infinity,
+    // To wherever the file ends, as one thread reads it (a file that grew is then noticed), or
+    // where a bounded source ends.
+    end: contentEnd(source),
     line: split.line,
     rows: rows - split.row,
     shape,

@@ -15,7 +15,7 @@ import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
 import { releaseMemory } from './release-memory.js';
 import { peek, scanInput } from './scan-input.js';
-import { type InputSource, rangeSource } from './source.js';
+import { type InputSource, contentEnd, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
 import { CellRefusal, type ValueConverter, valueConverter } from './value-converter.js';
 
@@ -370,7 +370,7 @@ function endingAt(source: InputSource, at: number): InputSource {
     ...source,
     async *chunks() {
       yield* rangeSource(source.name, fd, 0, at).chunks();
-      yield* rangeSource(source.name, fd, at, Infinity).chunks();
+      yield* rangeSource(source.name, fd, at, contentEnd(source)).chunks();
     },
   };
 }
@@ -610,7 +610,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
   const startSecondHalf = (at: number): void => {
-    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: Infinity, line: 1, options: { ...options, shape: shape as TableShape }, sort: sortParts });
+    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: contentEnd(source), line: 1, options: { ...options, shape: shape as TableShape }, sort: sortParts });
   };
   /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
   let sorted: Sorted | undefined;

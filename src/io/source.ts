@@ -4,7 +4,7 @@
 // other standard input and pipes are first read to their end (spill.ts),
 // gzip is decompressed on every pass (gzip.ts).
 
-import { closeSync, createReadStream, fstatSync, openSync, read, readFileSync, statSync } from 'node:fs';
+import { type Stats, closeSync, createReadStream, fstatSync, openSync, read, readFileSync, readSync, statSync } from 'node:fs';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
@@ -19,7 +19,18 @@ export interface InputSource {
    * undefined when the bytes can only be read in order (gzip, memory).
    */
   readonly descriptor?: () => number;
+  /**
+   * Whether the content read by position ends at `size` (standard input
+   * redirected from a file: what it held when famwise started, as a copy of
+   * it would), rather than wherever the file ends when it is read.
+   */
+  readonly bounded?: boolean;
   chunks(): AsyncIterable<Buffer>;
+}
+
+/** Where a source read by position ends: its size when bounded, else wherever the file ends (Infinity). */
+export function contentEnd(source: InputSource): number {
+  return source.bounded ? (source.size as number) : Infinity;
 }
 
 const READ_SIZE = 4 << 20;
@@ -54,8 +65,12 @@ export function fileSource(path: string): InputSource {
 /**
  * Standard input when it is a regular file read from its start
  * (famwise adjust < table.csv): read by position, as a file is, rather than
- * copied to a temporary file first. Undefined for anything else: a pipe, a
- * terminal, a file a shell has already read part of, or a system where the
+ * copied to a temporary file first. Its content is what it held at the
+ * start (bounded): a file that grows while it is read, such as the output
+ * appended to it (`< t.csv | tee -a t.csv`), is not read into itself.
+ * Undefined for anything else: a pipe, a terminal, a file a shell has
+ * already read part of, a file that standard output also goes to (the
+ * output could overwrite what is still to be read), or a system where the
  * position cannot be told (it is read from /proc/self/fdinfo, Linux).
  */
 export function stdinFileSource(): InputSource | undefined {
@@ -64,6 +79,7 @@ export function stdinFileSource(): InputSource | undefined {
   try {
     const stat = fstatSync(fd);
     if (!stat.isFile()) return undefined;
+    if (sameFile(stat, 1)) return undefined;
     size = stat.size;
     const position = /^pos:\s*(\d+)/m.exec(readFileSync(`/proc/self/fdinfo/${fd}`, 'latin1'));
     if (position?.[1] !== '0') return undefined;
@@ -76,24 +92,45 @@ export function stdinFileSource(): InputSource | undefined {
     extension: '',
     size,
     descriptor: () => fd,
-    chunks: () => rangeSource('<stdin>', fd, 0, Infinity).chunks(),
+    bounded: true,
+    chunks: () => rangeSource('<stdin>', fd, 0, size).chunks(),
   };
 }
 
+/** Whether a descriptor is open on the file of `stat` (false if it is not open). */
+function sameFile(stat: Stats, fd: number): boolean {
+  try {
+    const other = fstatSync(fd);
+    return other.dev === stat.dev && other.ino === stat.ino;
+  } catch {
+    return false;
+  }
+}
+
 /**
- * Reads a descriptor in order to its end, in the background, and drops the
- * bytes: reading by position leaves its offset where it was, and a shell
- * that shares it ({ famwise ...; next; } < file) expects it at the end, as
- * after any command that reads its input through.
+ * Reads a descriptor in order to its end and drops the bytes: reading by
+ * position leaves its offset where it was, and a shell that shares it
+ * ({ famwise ...; next; } < file) expects it at the end, as after any
+ * command that reads its input through. Done in the background; whatever
+ * is left when the process exits (an error can end it early) is read then.
  */
 function moveToEnd(fd: number): void {
   const scratch = Buffer.allocUnsafe(READ_SIZE);
+  let done = false;
   const step = (): void => {
     read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
-      if (!error && bytesRead > 0) step();
+      if (error || bytesRead === 0) done = true;
+      else step();
     });
   };
   step();
+  process.on('exit', () => {
+    try {
+      while (!done) done = readSync(fd, scratch, 0, scratch.length, null) === 0;
+    } catch {
+      // An input that cannot be read to its end is left where it is.
+    }
+  });
 }
 
 /** Reads up to length bytes at a position of a descriptor, into a new buffer: the bytes read. */
