@@ -287,7 +287,10 @@ export class RecordScanner {
    * starts, once the line's value is given to column.take; -1 when the line
    * is not one it takes (a quote, a blank line, another number of fields, a
    * value that is not a plain decimal from 0 to 1, the end of the block), for
-   * the usual paths to decide. Reads the field's bounds as fastLine would.
+   * the usual paths to decide. Reads the field's bounds as fastLine would,
+   * in a loop of its own that keeps no bounds but the one it reads: calling
+   * fastLine instead made the first pass about a quarter slower (1M rows,
+   * 229-330 ms against 172-201, medians of 9, alternating builds).
    */
   private plainLine(bytes: Buffer, start: number, column: PlainColumn): number {
     const delimiter = this.delimiter;

@@ -93,7 +93,10 @@ type Settle = (outcome: PartOutcome<unknown> | { readonly failed: Error }) => vo
  */
 let shared: { readonly worker: Worker; readonly waiting: Map<number, Settle>; next: number } | undefined;
 
-/** The worker's young generation, in MB (V8's default for a main thread on 64-bit systems is about this). */
+/**
+ * The worker's young generation, in MB: what a main thread's can grow to on
+ * a 64-bit system (three 16 MB semi-spaces' worth; V8's defaults, from memory).
+ */
 const YOUNG_GENERATION_MB = 48;
 
 function sharedWorker(): NonNullable<typeof shared> {

@@ -313,9 +313,9 @@ function fieldCountMessage(view: RecordView, table: TableShape, pColumn: number,
 
 /** Reads the p-values and families of a table (the first pass). */
 export async function readTable(source: InputSource, options: ReadOptions): Promise<Table> {
-  const { table, inTwoParts } = await readRecords(source, options);
+  const { table, withWorker } = await readRecords(source, options);
   // The parts as the threads made them, merged into the table's arrays, are garbage now.
-  if (inTwoParts) releaseMemory();
+  if (withWorker) releaseMemory();
   return table;
 }
 
@@ -376,7 +376,7 @@ function endingAt(source: InputSource, at: number): InputSource {
 }
 
 /** The table, and the key of each family (the bytes of its values), in the order of its index. */
-async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[]; missingRows: number; inTwoParts: boolean }> {
+async function readRecords(source: InputSource, options: ReadOptions, firstLine?: number): Promise<{ table: Table; familyKeys: string[]; missingRows: number; withWorker: boolean }> {
   const known = options.shape;
   // Reading in two parts: for a table read from its start, when only p-values, weights and families are wanted.
   const inTwoParts = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined;
@@ -695,5 +695,5 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     ...(split ? { split } : {}),
     ...(sorted ? { sorted } : {}),
   };
-  return { table, familyKeys: [...familyIndex.keys()], missingRows, inTwoParts: second !== undefined };
+  return { table, familyKeys: [...familyIndex.keys()], missingRows, withWorker: second !== undefined };
 }

@@ -147,8 +147,7 @@ export async function writeTable(
         const column = appended[k] as OutputColumn;
         if (row >= 0) {
           const { numbers, decisions } = column;
-          // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
-          if (numbers && !(numbers.decimalComma && outDelimiter === COMMA)) {
+          if (numbers && unquoted(numbers, outDelimiter)) {
             sink.pushNumberCell(outDelimiter, numbers.values[row] as number, numbers.decimalComma);
             continue;
           }
@@ -175,6 +174,11 @@ export async function writeTable(
   return row;
 }
 
+/** Whether numbers are written without quotes: their text holds no quote or line break, and the delimiter only as a decimal comma. */
+function unquoted(numbers: { readonly decimalComma: boolean }, delimiter: number): boolean {
+  return !(numbers.decimalComma && delimiter === COMMA);
+}
+
 /** The new cells as PlainCells, if every one is a number or a decision written without quotes; undefined otherwise. */
 function plainCells(appended: readonly OutputColumn[], delimiter: number): PlainCells | undefined {
   const kinds: number[] = [];
@@ -182,8 +186,7 @@ function plainCells(appended: readonly OutputColumn[], delimiter: number): Plain
   const alphas: number[] = [];
   let decimalComma = false;
   for (const { numbers, decisions } of appended) {
-    // A number's text holds no quote or line break, and the delimiter only as a decimal comma.
-    if (numbers && !(numbers.decimalComma && delimiter === COMMA)) {
+    if (numbers && unquoted(numbers, delimiter)) {
       kinds.push(NUMBER_CELL);
       values.push(numbers.values);
       alphas.push(0);
