@@ -91,9 +91,17 @@ export function familySegments(p: Float64Array, families: FamilyGrouping): Famil
   const { ids, count } = families;
   const start = new Int32Array(count + 1);
   const missing = new Int32Array(count);
-  for (let row = 0; row < p.length; row++) {
-    if (Number.isNaN(p[row])) missing[ids[row]]++;
-    else start[ids[row] + 1]++;
+  if (count === 1) {
+    // Every id is 0: only the missing values are counted (the ids, 4 bytes a row, are not read).
+    let absent = 0;
+    for (let row = 0; row < p.length; row++) if (Number.isNaN(p[row])) absent++;
+    missing[0] = absent;
+    start[1] = p.length - absent;
+  } else {
+    for (let row = 0; row < p.length; row++) {
+      if (Number.isNaN(p[row])) missing[ids[row]]++;
+      else start[ids[row] + 1]++;
+    }
   }
   for (let f = 0; f < count; f++) start[f + 1] += start[f];
   if (count === 1 && missing[0] === 0) return { start, missing, gathered: p, rowOf: undefined };

@@ -134,6 +134,13 @@ describe('adjustWithinFamilies', () => {
     expect(result.outcomes[0]?.[1]).toEqual({ tested: 3, missing: 0, m: 3, rejected: 1, threshold: 0.01, pi0: null });
   });
 
+  it('counts missing p-values in a table that is one family, and leaves their rows NaN', () => {
+    const result = adjustWithinFamilies(Float64Array.of(0.01, NaN, 0.04, NaN), singleFamily(4), [bh], { alpha: 0.05 });
+    // BH with m = 2: 0.01 * 2 / 1 = 0.02, 0.04 * 2 / 2 = 0.04.
+    expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.02, NaN, 0.04, NaN]);
+    expect(result.outcomes[0]?.[0]).toEqual({ tested: 2, missing: 2, m: 2, rejected: 2, threshold: 0.04, pi0: null });
+  });
+
   it('uses --tests as m in every family', () => {
     const result = adjustWithinFamilies(Float64Array.of(0.001, 0.002), singleFamily(2), [bh], { alpha: 0.05, tests: 100 });
     expect(Array.from(result.adjusted[0] as Float64Array)).toEqual([0.1, 0.1]);
