@@ -15,6 +15,8 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { bufferSource, fileSource, rangeSource } from '../dist/io/source.js';
 import { inParts } from '../dist/io/parts.js';
+import { readTable } from '../dist/io/read-table.js';
+import { sortAscending } from '../dist/procedures/sorting.js';
 import { CLI } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
 
@@ -89,6 +91,22 @@ describe('writing in two parts', () => {
     for (const missingAt of [10, 4500]) {
       const name = write(`missing-${missingAt}.csv`, table('id,p\n', 6000, (i) => `r${i},${i === missingAt ? 'NA' : p()}\n`));
       sameBothWays(['adjust', name, ...methods]);
+    }
+  });
+
+  it('sorts the p-values in the two threads only for a reader that asks (adjust), and then as one sort of the whole would', async () => {
+    const path = join(work, write('sorted.csv', table('id,p\n', 6000, (i) => `r${i},${((i * 37) % 50) / 400}\n`)));
+    const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+    try {
+      process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
+      const asked = await readTable(fileSource(path), { sortP: true });
+      const whole = sortAscending(asked.p);
+      expect(Array.from(asked.sorted?.order ?? [])).toEqual(Array.from(whole.order));
+      expect(Array.from(asked.sorted?.sorted ?? [])).toEqual(Array.from(whole.sorted));
+      expect((await readTable(fileSource(path), {})).sorted).toBeUndefined();
+    } finally {
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
     }
   });
 

@@ -333,7 +333,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     env: process.env,
   });
   const source = progressWanted ? progressLine((text) => process.stderr.write(text)).watch(opened) : opened;
-  const table = await readTable(source, { ...readOptions, weightsColumn: options.weights });
+  const table = await readTable(source, { ...readOptions, weightsColumn: options.weights, sortP: true });
   const note = (text: string): void => {
     if (!options.quiet) process.stderr.write(`famwise: note: ${text}\n`);
   };

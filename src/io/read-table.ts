@@ -44,6 +44,11 @@ export interface ReadOptions {
    * for plain p-values.
    */
   readonly reading?: ValueReading | undefined;
+  /**
+   * Also sort the p-values when the table is read in two parts (Table.sorted),
+   * for a caller that adjusts them: each thread sorts its own part.
+   */
+  readonly sortP?: boolean | undefined;
   /** Read an upper bound ("<2e-16") as its value instead of refusing it. */
   readonly boundsAsValues?: boolean | undefined;
   /**
@@ -381,9 +386,10 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   // Reading in two parts: for a table read from its start, when only p-values, weights and families are wanted.
   const inTwoParts = known === undefined && !options.lineNumbers && !options.pPrecision && !options.keyColumns && options.claimedColumn === undefined;
   if (inTwoParts) warmUp(source);
-  // Each thread then sorts its own part too, when the table is one family with no weights: the sort is
-  // most of the time between the passes, and merging two sorted parts is linear.
-  const sortParts = inTwoParts && (options.familyColumns ?? []).length === 0 && options.weightsColumn === undefined;
+  // Each thread then sorts its own part too, for a caller that adjusts (sortP) a table that is one
+  // family with no weights: the sort is most of the time between the passes, and merging two sorted
+  // parts is linear. Other callers (inspect) would only pay for it.
+  const sortParts = inTwoParts && options.sortP === true && (options.familyColumns ?? []).length === 0 && options.weightsColumn === undefined;
   let missingRows = 0;
   const head = known ? undefined : await peek(source, 1 << 16);
   if (head) refuseUnreadable(head, source.name);
