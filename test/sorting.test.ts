@@ -39,6 +39,27 @@ describe('ascendingOrder', () => {
     }
   });
 
+  it('sorts values that share their high 32 bits by the low 32, in short and long runs, shuffled', () => {
+    const random = seededRandom(23);
+    // Values a few units in the last place apart share the high word: runs of 2 to 5000 values
+    // (insertion up to 64, radix passes above), with exact ties among them, in shuffled order.
+    for (const run of [2, 31, 63, 64, 65, 66, 200, 5000]) {
+      const values: number[] = [];
+      for (const base of [0.5, 0.123456789, 1e-300, 3.5]) {
+        for (let k = 0; k < run; k++) values.push(base + Math.floor(random() * run * 0.8) * (base * 2 ** -50));
+      }
+      for (let i = values.length - 1; i > 0; i--) {
+        const j = Math.floor(random() * (i + 1));
+        [values[i], values[j]] = [values[j] as number, values[i] as number];
+      }
+      const p = Float64Array.from(values.length >= 512 ? values : [...values, ...new Array<number>(512).fill(0.75)]);
+      const { order, sorted } = sortAscending(p);
+      const expected = Array.from(p.keys()).sort((a, b) => (p[a] as number) - (p[b] as number) || a - b);
+      expect(Array.from(order)).toEqual(expected);
+      expect(Array.from(sorted)).toEqual(expected.map((row) => p[row]));
+    }
+  });
+
   it('scatter undoes gather', () => {
     const p = awkwardPValues(seededRandom(5), 500);
     const order = ascendingOrder(p);

@@ -7,11 +7,18 @@
 // of the doubles: for numbers >= 0 the IEEE 754 bit patterns, read as
 // unsigned integers, sort in the same order as the numbers. The values
 // travel with their positions, so the sorted values come out with the
-// order and need no gathering (a pass of random reads). Digits of 11 bits
-// (6 passes over 64 bits, counted in one pass first) keep the count tables
-// in the first-level cache; a pass whose digit is the same for every value
-// is skipped. Linear in m, with no comparator calls; small inputs (many
-// small families) use a comparison sort instead.
+// order and need no gathering (a pass of random reads).
+//
+// The sort is by the high 32 bits first (sign, exponent and 20 bits of
+// mantissa: three passes of 11-bit digits, counted in one pass, whose count
+// tables stay in the first-level cache; a pass whose digit is the same for
+// every value is skipped). Values that share their high word are then next
+// to each other, in input order, and only such runs are sorted by the low
+// word: a short run by insertion, a long one by radix passes of its own.
+// Most runs are single values or exact ties (already in order), so this
+// does half the passes of a sort on all 64 bits. Linear in m, with no
+// comparator calls; small inputs (many small families) use a comparison
+// sort instead.
 
 import { checkedTestCount } from './validate.js';
 
@@ -21,8 +28,12 @@ export type SortedKernel = (sorted: Float64Array, m: number) => Float64Array;
 const DIGIT_BITS = 11;
 const RADIX = 1 << DIGIT_BITS;
 const DIGIT = RADIX - 1;
-const PASSES = 6;
-/** Below this many values a comparison sort beats clearing and summing six count tables. */
+/** Passes over the high word (11 + 11 + 10 bits). */
+const HIGH_PASSES = 3;
+/** Runs sharing a high word and longer than this are sorted by radix passes over the low word, of 8 bits. */
+const INSERTION_RUN = 64;
+const LOW_RADIX = 256;
+/** Below this many values a comparison sort beats clearing and summing the count tables. */
 const SMALL = 512;
 
 /** Values in ascending order, and where each came from: sorted[i] = p[order[i]]. */
@@ -46,6 +57,11 @@ export function sortAscending(p: Float64Array): Sorted {
   return sortAscendingInPlace(p.slice());
 }
 
+/** The 32-bit words of a view of doubles: word 2i is the low half of value i, 2i + 1 its high half (little-endian). */
+function wordsOf(values: Float64Array): Uint32Array {
+  return new Uint32Array(values.buffer, values.byteOffset, 2 * values.length);
+}
+
 /** sortAscending, using p itself as working space: p is overwritten (it may become the result's sorted). */
 export function sortAscendingInPlace(p: Float64Array): Sorted {
   const n = p.length;
@@ -65,52 +81,116 @@ export function sortAscendingInPlace(p: Float64Array): Sorted {
   let spareKeys: Float64Array = new Float64Array(n);
   let order = new Uint32Array(n);
   let spare = new Uint32Array(n);
-  const counts = new Uint32Array(RADIX * PASSES);
-  let words = new Uint32Array(keys.buffer, keys.byteOffset, 2 * n);
-  // Digit k is bits 11k to 11k + 10 of the pattern; digit 2 spans both words.
+  const counts = new Uint32Array(RADIX * HIGH_PASSES);
+  let words = wordsOf(keys);
   for (let i = 0; i < n; i++) {
     order[i] = i;
-    const low = words[2 * i];
-    const high = words[2 * i + 1];
-    counts[low & DIGIT]++;
-    counts[RADIX + ((low >>> 11) & DIGIT)]++;
-    counts[2 * RADIX + (((low >>> 22) | (high << 10)) & DIGIT)]++;
-    counts[3 * RADIX + ((high >>> 1) & DIGIT)]++;
-    counts[4 * RADIX + ((high >>> 12) & DIGIT)]++;
-    counts[5 * RADIX + (high >>> 23)]++;
+    const high = words[2 * i + 1] as number;
+    counts[high & DIGIT]++;
+    counts[RADIX + ((high >>> 11) & DIGIT)]++;
+    counts[2 * RADIX + (high >>> 22)]++;
   }
-  for (let pass = 0; pass < PASSES; pass++) {
-    const base = pass * RADIX;
-    let total = 0;
-    let skip = false;
-    for (let d = 0; d < RADIX; d++) {
-      const count = counts[base + d];
-      if (count === n) skip = true; // every value has this digit
-      counts[base + d] = total;
-      total += count;
-    }
-    if (skip) continue;
-    const table = counts.subarray(base, base + RADIX);
-    if (pass === 2) {
-      for (let i = 0; i < n; i++) {
-        const at = table[((words[2 * i] >>> 22) | (words[2 * i + 1] << 10)) & DIGIT]++;
-        spareKeys[at] = keys[i];
-        spare[at] = order[i];
-      }
-    } else {
-      const word = pass < 2 ? 0 : 1;
-      const shift = pass < 2 ? 11 * pass : 11 * pass - 32;
-      for (let i = 0; i < n; i++) {
-        const at = table[(words[2 * i + word] >>> shift) & DIGIT]++;
-        spareKeys[at] = keys[i];
-        spare[at] = order[i];
-      }
+  for (let pass = 0; pass < HIGH_PASSES; pass++) {
+    const table = counts.subarray(pass * RADIX, (pass + 1) * RADIX);
+    if (!startsOf(table, n)) continue;
+    const shift = DIGIT_BITS * pass;
+    for (let i = 0; i < n; i++) {
+      const at = table[((words[2 * i + 1] as number) >>> shift) & DIGIT]++ as number;
+      spareKeys[at] = keys[i] as number;
+      spare[at] = order[i] as number;
     }
     [keys, spareKeys] = [spareKeys, keys];
     [order, spare] = [spare, order];
-    words = new Uint32Array(keys.buffer, keys.byteOffset, 2 * n);
+    words = wordsOf(keys);
   }
+  sortRunsByLowWord(keys, order, spareKeys, spare);
   return { order, sorted: keys };
+}
+
+/**
+ * Turns counts by digit into the position where each digit's values start;
+ * false (and nothing to do) when every one of the n values has the same digit.
+ */
+function startsOf(table: Uint32Array, n: number): boolean {
+  let total = 0;
+  let useful = true;
+  for (let d = 0; d < table.length; d++) {
+    const count = table[d] as number;
+    if (count === n) useful = false;
+    table[d] = total;
+    total += count;
+  }
+  return useful;
+}
+
+/**
+ * keys sorted by their high words, ties in input order: sorts each run of
+ * equal high words by the low word, stably. spareKeys and spare are free
+ * working space of the same length.
+ */
+function sortRunsByLowWord(keys: Float64Array, order: Uint32Array, spareKeys: Float64Array, spare: Uint32Array): void {
+  const n = keys.length;
+  const words = wordsOf(keys);
+  const table = new Uint32Array(LOW_RADIX);
+  let i = 0;
+  while (i < n) {
+    const high = words[2 * i + 1] as number;
+    let previous = words[2 * i] as number;
+    let inOrder = true;
+    let end = i + 1;
+    for (; end < n && words[2 * end + 1] === high; end++) {
+      const low = words[2 * end] as number;
+      if (low < previous) inOrder = false;
+      previous = low;
+    }
+    if (!inOrder) {
+      if (end - i <= INSERTION_RUN) insertionByLowWord(keys, order, words, i, end);
+      else radixByLowWord(keys.subarray(i, end), order.subarray(i, end), spareKeys.subarray(i, end), spare.subarray(i, end), table);
+    }
+    i = end;
+  }
+}
+
+/** Stable insertion sort of keys[from, to) (and order with them) by the low word. */
+function insertionByLowWord(keys: Float64Array, order: Uint32Array, words: Uint32Array, from: number, to: number): void {
+  for (let a = from + 1; a < to; a++) {
+    const key = keys[a] as number;
+    const position = order[a] as number;
+    const low = words[2 * a] as number;
+    let b = a - 1;
+    for (; b >= from && (words[2 * b] as number) > low; b--) {
+      keys[b + 1] = keys[b] as number;
+      order[b + 1] = order[b] as number;
+    }
+    keys[b + 1] = key;
+    order[b + 1] = position;
+  }
+}
+
+/** Stable LSD radix sort of a run by the low word (four 8-bit digits, counted in table); the result is left in keys and order. */
+function radixByLowWord(keys: Float64Array, order: Uint32Array, spareKeys: Float64Array, spare: Uint32Array, table: Uint32Array): void {
+  const n = keys.length;
+  let from = keys;
+  let fromOrder = order;
+  let to = spareKeys;
+  let toOrder = spare;
+  for (let shift = 0; shift < 32; shift += 8) {
+    const words = wordsOf(from);
+    table.fill(0);
+    for (let i = 0; i < n; i++) table[((words[2 * i] as number) >>> shift) & 0xff]++;
+    if (!startsOf(table, n)) continue;
+    for (let i = 0; i < n; i++) {
+      const at = table[((words[2 * i] as number) >>> shift) & 0xff]++ as number;
+      to[at] = from[i] as number;
+      toOrder[at] = fromOrder[i] as number;
+    }
+    [from, to] = [to, from];
+    [fromOrder, toOrder] = [toOrder, fromOrder];
+  }
+  if (from !== keys) {
+    keys.set(from);
+    order.set(fromOrder);
+  }
 }
 
 /**
