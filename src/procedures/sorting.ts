@@ -71,40 +71,55 @@ export function sortAscendingInPlace(p: Float64Array): Sorted {
   }
   // -0 must sort with 0, but its bits would sort last: sorted by its order
   // among the numbers instead (rare, so done the slow way).
-  for (let i = 0; i < n; i++) {
-    if (p[i] === 0 && 1 / p[i] < 0) {
-      const order = sortAscending(p.map((value) => value + 0)).order;
-      return { order, sorted: gather(p, order) };
-    }
+  if (hasNegativeZero(p)) {
+    const order = sortAscending(p.map((value) => value + 0)).order;
+    return { order, sorted: gather(p, order) };
   }
   let keys: Float64Array = p;
   let spareKeys: Float64Array = new Float64Array(n);
   let order = new Uint32Array(n);
   let spare = new Uint32Array(n);
+  const counts = countHighDigits(wordsOf(keys), order);
+  for (let pass = 0; pass < HIGH_PASSES; pass++) {
+    const table = counts.subarray(pass * RADIX, (pass + 1) * RADIX);
+    if (!startsOf(table, n)) continue;
+    placeByHighDigit(wordsOf(keys), keys, order, spareKeys, spare, table, DIGIT_BITS * pass);
+    [keys, spareKeys] = [spareKeys, keys];
+    [order, spare] = [spare, order];
+  }
+  sortRunsByLowWord(keys, order, spareKeys, spare);
+  return { order, sorted: keys };
+}
+
+// Each loop of the sort is a function of its own: the engine optimises a
+// long loop while it runs, and a function holding several would be compiled
+// again for each loop it reaches that had not run yet.
+
+function hasNegativeZero(p: Float64Array): boolean {
+  for (let i = 0; i < p.length; i++) if (p[i] === 0 && 1 / (p[i] as number) < 0) return true;
+  return false;
+}
+
+/** Counts of each 11-bit digit of the high words, by pass; fills order with 0, 1, 2, ... */
+function countHighDigits(words: Uint32Array, order: Uint32Array): Uint32Array {
   const counts = new Uint32Array(RADIX * HIGH_PASSES);
-  let words = wordsOf(keys);
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < order.length; i++) {
     order[i] = i;
     const high = words[2 * i + 1] as number;
     counts[high & DIGIT]++;
     counts[RADIX + ((high >>> 11) & DIGIT)]++;
     counts[2 * RADIX + (high >>> 22)]++;
   }
-  for (let pass = 0; pass < HIGH_PASSES; pass++) {
-    const table = counts.subarray(pass * RADIX, (pass + 1) * RADIX);
-    if (!startsOf(table, n)) continue;
-    const shift = DIGIT_BITS * pass;
-    for (let i = 0; i < n; i++) {
-      const at = table[((words[2 * i + 1] as number) >>> shift) & DIGIT]++ as number;
-      spareKeys[at] = keys[i] as number;
-      spare[at] = order[i] as number;
-    }
-    [keys, spareKeys] = [spareKeys, keys];
-    [order, spare] = [spare, order];
-    words = wordsOf(keys);
+  return counts;
+}
+
+/** One pass: each value (and its position) to where table says its digit goes next. */
+function placeByHighDigit(words: Uint32Array, keys: Float64Array, order: Uint32Array, toKeys: Float64Array, toOrder: Uint32Array, table: Uint32Array, shift: number): void {
+  for (let i = 0; i < order.length; i++) {
+    const at = table[((words[2 * i + 1] as number) >>> shift) & DIGIT]++ as number;
+    toKeys[at] = keys[i] as number;
+    toOrder[at] = order[i] as number;
   }
-  sortRunsByLowWord(keys, order, spareKeys, spare);
-  return { order, sorted: keys };
 }
 
 /**
