@@ -113,6 +113,13 @@ export class RecordScanner {
   /** Where the buffer passed to scan lies in the whole input (set by the caller before each scan). */
   bufOffset = 0;
   private readonly view: RecordView;
+  /**
+   * The options that matter per block, as fields of their own: options
+   * objects of different shapes (a reader's, a writer's) would otherwise make
+   * scan's optimised code start over when the next caller's arrives.
+   */
+  private readonly fastPath: boolean;
+  private readonly splitFields: boolean;
 
   /**
    * loneCrEndsLine: whether a CR not followed by LF ends a line (files with
@@ -123,8 +130,11 @@ export class RecordScanner {
     private readonly delimiter: number,
     private readonly sourceName: string,
     private readonly loneCrEndsLine = false,
-    private readonly options: ScanOptions = {},
+    options: ScanOptions = {},
   ) {
+    // Lines without a quote take the fast path (not in files with lone-CR line endings).
+    this.fastPath = options.fastPath !== false && !loneCrEndsLine;
+    this.splitFields = options.splitFields !== false;
     this.line = options.firstLine ?? 1;
     this.atInputStart = options.firstLine === undefined;
     this.view = {
@@ -173,9 +183,7 @@ export class RecordScanner {
     }
     let gapStart = from;
     let lineAtConsumed = this.line;
-    // Lines without a quote take the fast path (not in files with lone-CR line endings).
-    const fastPath = this.options.fastPath !== false && !this.loneCrEndsLine;
-    const splitFields = this.options.splitFields !== false;
+    const { fastPath, splitFields } = this;
     let nextQuote = -1;
     for (;;) {
       while (fastPath) {
