@@ -7,9 +7,17 @@
 type NumberArray = Float64Array | Int32Array;
 
 const BLOCK = 1 << 16;
+/**
+ * The first block is small, so that the path that starts a new block runs
+ * early, before the engine optimises the loop that pushes (a path it has not
+ * seen run would make it compile that loop again when it came).
+ */
+const FIRST_BLOCK = 1 << 10;
 
 export class Growable<T extends NumberArray> {
   private readonly full: T[] = [];
+  /** Values held by the full blocks. */
+  private inFull = 0;
   private block: T;
   private used = 0;
   length = 0;
@@ -21,8 +29,11 @@ export class Growable<T extends NumberArray> {
 
   push(value: number): void {
     if (this.used === this.block.length) {
-      if (this.used > 0) this.full.push(this.block);
-      this.block = this.allocate(BLOCK);
+      if (this.used > 0) {
+        this.full.push(this.block);
+        this.inFull += this.used;
+      }
+      this.block = this.allocate(this.length === 0 ? FIRST_BLOCK : BLOCK);
       this.used = 0;
     }
     this.block[this.used++] = value;
@@ -35,8 +46,12 @@ export class Growable<T extends NumberArray> {
    */
   toArray(then?: NumberArray): T {
     const out = this.allocate(this.length + (then?.length ?? 0));
-    this.full.forEach((block, k) => out.set(block, k * BLOCK));
-    out.set(this.block.subarray(0, this.used), this.full.length * BLOCK);
+    let at = 0;
+    for (const block of this.full) {
+      out.set(block, at);
+      at += block.length;
+    }
+    out.set(this.block.subarray(0, this.used), this.inFull);
     if (then) out.set(then, this.length);
     return out;
   }
