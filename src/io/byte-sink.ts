@@ -10,6 +10,12 @@ import type { Writable } from 'node:stream';
 import { LONGEST_NUMBER, writeNumber } from './number-text.js';
 
 const BLOCK_SIZE = 1 << 20;
+/**
+ * The first block is small, so that the path that starts a new block runs
+ * early, before the engine optimises the writer's loop in the middle of it
+ * (a path it has not seen run would make it compile that loop again).
+ */
+const FIRST_BLOCK_SIZE = 1 << 14;
 /** Bytes left queued in the stream before waiting for it to drain. */
 const MAX_QUEUED = 16 << 20;
 /** Runs up to this many bytes are copied byte by byte. */
@@ -53,7 +59,7 @@ function writeDecision(value: number, alpha: number, block: Uint8Array, at: numb
 }
 
 export class ByteSink {
-  private block: Buffer = Buffer.allocUnsafeSlow(BLOCK_SIZE);
+  private block: Buffer = Buffer.allocUnsafeSlow(FIRST_BLOCK_SIZE);
   private blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
   /** The buffer short runs were last copied from, and a view of it for four-byte reads. */
   private source: Uint8Array = this.block;
