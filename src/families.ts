@@ -8,7 +8,7 @@
 import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
 import { normalisedWeights } from './procedures/weights.js';
-import { type Sorted, gather, sortAscending } from './procedures/sorting.js';
+import { type SortedParts, gather, mergeSorted, sortAscending } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 /** Family membership: ids[row] is in [0, count). */
@@ -48,11 +48,13 @@ export interface WithinFamiliesOptions {
   /** Tuning for the procedures that take any. */
   readonly settings?: MethodSettings | undefined;
   /**
-   * p already sorted (sortAscending(p), say from two parts sorted in two
-   * threads), used in place of sorting when every row is in one family and
-   * no p-value is missing; ignored otherwise.
+   * p already sorted in two parts (as two threads sort a table they read),
+   * merged in place of sorting when every row is in one family and no
+   * p-value is missing; ignored otherwise. (io/parallel-adjust.ts adjusts
+   * such parts unmerged, in two threads, when every method is a step
+   * procedure.)
    */
-  readonly sorted?: Sorted | undefined;
+  readonly sortedParts?: SortedParts | undefined;
 }
 
 /** Thrown when --tests is smaller than the p-values a family holds. */
@@ -166,14 +168,15 @@ export function adjustWithinFamilies(
     }
     return made[k];
   };
+  const { sortedParts } = options;
+  const parts = sortedParts !== undefined && count === 1 && rowOf === undefined && sortedParts.first.order.length + sortedParts.second.order.length === p.length ? sortedParts : undefined;
   const outcomes: FamilyOutcome[][] = [];
   for (let f = 0; f < count; f++) {
     const from = start[f];
     const to = start[f + 1];
     const segment = gathered.subarray(from, to);
     const m = checkedTestCount(segment, testsOf(f) ?? segment.length);
-    const presorted = options.sorted !== undefined && count === 1 && rowOf === undefined && options.sorted.order.length === segment.length ? options.sorted : undefined;
-    const { order, sorted } = presorted ?? sortAscending(segment);
+    const { order, sorted } = parts ? mergeSorted(parts.first, parts.second) : sortAscending(segment);
     const sortedWeights = gatheredWeights && familyWeights(gather(gatheredWeights.subarray(from, to), order), f);
     outcomes.push(
       methods.map((method, k) => {

@@ -2,14 +2,15 @@
 // modules and every list shown to users come from here, so adding a
 // procedure is one new module in procedures/ plus one entry below.
 
-import { benjaminiHochbergSorted } from './procedures/benjamini-hochberg.js';
-import { benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
-import { bonferroniSorted } from './procedures/bonferroni.js';
-import { hochbergSorted } from './procedures/hochberg.js';
-import { holmSidakSorted } from './procedures/holm-sidak.js';
-import { holmSorted } from './procedures/holm.js';
+import { BENJAMINI_HOCHBERG_STEPS, benjaminiHochbergSorted } from './procedures/benjamini-hochberg.js';
+import { BENJAMINI_YEKUTIELI_STEPS, benjaminiYekutieliSorted } from './procedures/benjamini-yekutieli.js';
+import { BONFERRONI_STEPS, bonferroniSorted } from './procedures/bonferroni.js';
+import { HOCHBERG_STEPS, hochbergSorted } from './procedures/hochberg.js';
+import { HOLM_SIDAK_STEPS, holmSidakSorted } from './procedures/holm-sidak.js';
+import { HOLM_STEPS, holmSorted } from './procedures/holm.js';
 import { hommelSorted } from './procedures/hommel.js';
-import { sidakSorted } from './procedures/sidak.js';
+import { SIDAK_STEPS, sidakSorted } from './procedures/sidak.js';
+import type { StepForm } from './procedures/step-parts.js';
 import { weightedBenjaminiHochberg } from './procedures/weighted-benjamini-hochberg.js';
 import { weightedBonferroni } from './procedures/weighted-bonferroni.js';
 import { weightedHolm } from './procedures/weighted-holm.js';
@@ -69,6 +70,12 @@ interface MethodEntry {
   readonly run: (family: FamilyInput, settings: MethodSettings) => FamilyAdjustment;
   /** The weighted form, for procedures that have one. */
   readonly adjustWeighted?: WeightedKernel;
+  /**
+   * The same procedure as a step form (procedures/step-parts.ts), for those
+   * that are a running minimum or maximum of a term, or a term alone: a
+   * family sorted in two parts is then adjusted part by part, unmerged.
+   */
+  readonly stepForm?: StepForm;
 }
 
 export interface Method extends MethodEntry {
@@ -91,6 +98,7 @@ const ENTRIES: readonly MethodEntry[] = [
     source: 'Dunn (1961), J. Am. Stat. Assoc. 56:52-64',
     run: plain(bonferroniSorted),
     adjustWeighted: weightedBonferroni,
+    stepForm: BONFERRONI_STEPS,
   },
   {
     token: 'holm',
@@ -101,6 +109,7 @@ const ENTRIES: readonly MethodEntry[] = [
     source: 'Holm (1979), Scand. J. Stat. 6:65-70',
     run: plain(holmSorted),
     adjustWeighted: weightedHolm,
+    stepForm: HOLM_STEPS,
   },
   {
     token: 'sidak',
@@ -110,6 +119,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'single-step',
     source: 'Šidák (1967), J. Am. Stat. Assoc. 62:626-633',
     run: plain(sidakSorted),
+    stepForm: SIDAK_STEPS,
   },
   {
     token: 'holm-sidak',
@@ -119,6 +129,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-down',
     source: 'Holm (1979), Scand. J. Stat. 6:65-70, with Šidák (1967) levels',
     run: plain(holmSidakSorted),
+    stepForm: HOLM_SIDAK_STEPS,
   },
   {
     token: 'hochberg',
@@ -128,6 +139,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Hochberg (1988), Biometrika 75:800-802',
     run: plain(hochbergSorted),
+    stepForm: HOCHBERG_STEPS,
   },
   {
     token: 'hommel',
@@ -147,6 +159,7 @@ const ENTRIES: readonly MethodEntry[] = [
     source: 'Benjamini & Hochberg (1995), J. R. Stat. Soc. B 57:289-300',
     run: plain(benjaminiHochbergSorted),
     adjustWeighted: weightedBenjaminiHochberg,
+    stepForm: BENJAMINI_HOCHBERG_STEPS,
   },
   {
     token: 'by',
@@ -156,6 +169,7 @@ const ENTRIES: readonly MethodEntry[] = [
     steps: 'step-up',
     source: 'Benjamini & Yekutieli (2001), Ann. Stat. 29:1165-1188',
     run: plain(benjaminiYekutieliSorted),
+    stepForm: BENJAMINI_YEKUTIELI_STEPS,
   },
   {
     token: 'storey',

@@ -16,7 +16,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { bufferSource, fileSource, rangeSource } from '../dist/io/source.js';
 import { inParts } from '../dist/io/parts.js';
 import { readTable } from '../dist/io/read-table.js';
-import { sortAscending } from '../dist/procedures/sorting.js';
+import { type Sorted, mergeSorted, sortAscending } from '../dist/procedures/sorting.js';
 import { CLI } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
 
@@ -94,16 +94,34 @@ describe('writing in two parts', () => {
     }
   });
 
+  it('gives the values and the summary of one thread when the two threads adjust their own parts (step procedures only), with --tests too', () => {
+    const steps = ['--methods', 'bonferroni,holm,sidak,holm-sidak,hochberg,bh,by'];
+    // Ties across the middle, and values small enough to be rejected in both parts.
+    const tied = write('steps.csv', table('id,p\n', 6000, (i) => `r${i},${i % 7 === 0 ? ((i * 13) % 97) / 1e7 : ((i * 37) % 50) / 400}\n`));
+    // The summary on standard error (rejections and thresholds by method) is compared too.
+    const summary = run(['adjust', tied, ...steps, '-o', '-'], '0').stderr;
+    // Rows rejected in both parts: the counts and thresholds add up from the two threads.
+    expect(summary).toMatch(/ bh +6000 +0 +6000 +[1-9]\d* +0\.\d/);
+    expect(sameBothWays(['adjust', tied, ...steps]).toString().split('\n')).toHaveLength(6002);
+    sameBothWays(['adjust', tied, ...steps, '--tests', '9000', '-q']);
+  });
+
   it('sorts the p-values in the two threads only for a reader that asks (adjust), and then as one sort of the whole would', async () => {
     const path = join(work, write('sorted.csv', table('id,p\n', 6000, (i) => `r${i},${((i * 37) % 50) / 400}\n`)));
     const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
     try {
       process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
       const asked = await readTable(fileSource(path), { sortP: true });
+      const parts = asked.sortedParts;
+      expect(parts).toBeDefined();
+      // Each part is its rows' sort, split where the table is (the merge of the two, the whole's).
+      const split = asked.split?.row as number;
+      expect(parts?.first.order.length).toBe(split);
+      const merged = mergeSorted(parts?.first as Sorted, parts?.second as Sorted);
       const whole = sortAscending(asked.p);
-      expect(Array.from(asked.sorted?.order ?? [])).toEqual(Array.from(whole.order));
-      expect(Array.from(asked.sorted?.sorted ?? [])).toEqual(Array.from(whole.sorted));
-      expect((await readTable(fileSource(path), {})).sorted).toBeUndefined();
+      expect(Array.from(merged.order)).toEqual(Array.from(whole.order));
+      expect(Array.from(merged.sorted)).toEqual(Array.from(whole.sorted));
+      expect((await readTable(fileSource(path), {})).sortedParts).toBeUndefined();
     } finally {
       if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
       else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;

@@ -1,7 +1,7 @@
 // The radix sort that every procedure relies on, against the engine's own sort.
 import { describe, expect, it } from 'vitest';
 import { ascendingOrder, gather, mergeSorted, scatter, sortAscending, sortAscendingInPlace } from '../src/procedures/sorting.js';
-import { awkwardPValues, seededRandom } from './helpers/random.js';
+import { awkwardPValues, seededRandom, withTiesAcross } from './helpers/random.js';
 
 describe('ascendingOrder', () => {
   it('orders values as the engine\'s numeric sort does, and keeps tied rows in input order', () => {
@@ -73,13 +73,7 @@ describe('mergeSorted', () => {
   it('gives, from the sorts of two parts, the sort of the whole, bit for bit and with ties in input order', () => {
     const random = seededRandom(17);
     for (const size of [0, 1, 2, 600, 3000, 20_000]) {
-      const p = awkwardPValues(random, size);
-      // Ties across the split, and -0 beside 0 on either side of it.
-      if (size > 10) {
-        p[1] = -0;
-        p[size - 2] = 0;
-        p[size - 1] = p[0] as number;
-      }
+      const p = withTiesAcross(awkwardPValues(random, size));
       for (const split of [0, 1, Math.floor(size / 3), size - 1, size].filter((at) => at >= 0 && at <= size)) {
         const whole = sortAscending(p);
         const merged = mergeSorted(sortAscending(p.subarray(0, split)), sortAscending(p.subarray(split)));

@@ -154,21 +154,29 @@ describe('adjustWithinFamilies', () => {
     expect(() => adjustWithinFamilies(Float64Array.of(0.1, 0.2), singleFamily(2), [bonferroni], { alpha: 0.05, tests: [1] })).toThrow(TooFewTestsError);
   });
 
-  it('takes p sorted already (as two threads sort it) for one family with no missing p-value, and ignores it otherwise', () => {
+  it('takes p sorted in two parts (as two threads sort it) for one family with no missing p-value, and ignores it otherwise', () => {
     const p = Float64Array.from({ length: 3000 }, (_, i) => ((i * 7919) % 1000) / 1000);
-    const every = METHODS;
-    const plain = adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05 });
-    const presorted = adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05, sorted: sortAscending(p) });
-    expect(presorted).toEqual(plain);
-    // A sort that is not p's would show in the values: so it is not used for two families, or with a missing p-value.
-    const wrong = { order: new Uint32Array(p.length), sorted: new Float64Array(p.length) };
+    const split = 1234;
+    const parts = { first: sortAscending(p.subarray(0, split)), second: sortAscending(p.subarray(split)) };
+    // Every method, the step procedures only, and one of each: merged, and adjusted as the whole is.
+    const steps = METHODS.filter((method) => method.stepForm !== undefined);
+    for (const methods of [METHODS, steps, [findMethod('holm') as Method, findMethod('storey') as Method]]) {
+      const plain = adjustWithinFamilies(p, singleFamily(p.length), methods, { alpha: 0.05 });
+      expect(adjustWithinFamilies(p, singleFamily(p.length), methods, { alpha: 0.05, sortedParts: parts })).toEqual(plain);
+      expect(adjustWithinFamilies(p, singleFamily(p.length), methods, { alpha: 0.05, tests: 5000, sortedParts: parts })).toEqual(
+        adjustWithinFamilies(p, singleFamily(p.length), methods, { alpha: 0.05, tests: 5000 }),
+      );
+    }
+    // Parts that are not p's would show in the values: so they are not used for two families, or with a missing p-value.
+    const wrongPart = { order: new Uint32Array(1500), sorted: new Float64Array(1500) };
+    const wrong = { first: wrongPart, second: wrongPart };
     const ids = Int32Array.from(p, (_, i) => i % 2);
-    expect(adjustWithinFamilies(p, { ids, count: 2 }, every, { alpha: 0.05, sorted: wrong })).toEqual(adjustWithinFamilies(p, { ids, count: 2 }, every, { alpha: 0.05 }));
+    expect(adjustWithinFamilies(p, { ids, count: 2 }, steps, { alpha: 0.05, sortedParts: wrong })).toEqual(adjustWithinFamilies(p, { ids, count: 2 }, steps, { alpha: 0.05 }));
     const gap = p.slice();
     gap[5] = NaN;
-    expect(adjustWithinFamilies(gap, singleFamily(p.length), every, { alpha: 0.05, sorted: wrong })).toEqual(adjustWithinFamilies(gap, singleFamily(p.length), every, { alpha: 0.05 }));
-    // And a wrong one for the one family is used as given: the test above would see it.
-    expect(adjustWithinFamilies(p, singleFamily(p.length), every, { alpha: 0.05, sorted: wrong })).not.toEqual(plain);
+    expect(adjustWithinFamilies(gap, singleFamily(p.length), steps, { alpha: 0.05, sortedParts: wrong })).toEqual(adjustWithinFamilies(gap, singleFamily(p.length), steps, { alpha: 0.05 }));
+    // And wrong ones for the one family are used as given: the tests above would see them.
+    expect(adjustWithinFamilies(p, singleFamily(p.length), METHODS, { alpha: 0.05, sortedParts: wrong })).not.toEqual(adjustWithinFamilies(p, singleFamily(p.length), METHODS, { alpha: 0.05 }));
   });
 
   it('handles a table with no rows', () => {

@@ -38,6 +38,7 @@ import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
 import { writeTableInParts } from '../io/parallel-write.js';
+import { adjustInTwoThreads } from '../io/parallel-adjust.js';
 import { inParts } from '../io/parts.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
@@ -253,12 +254,15 @@ function methodSettings(options: AdjustOptions): MethodSettings {
 }
 
 /** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
-function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodSettings, familyColumnNames: readonly string[]): WithinFamilies {
-  const { sorted } = table;
+async function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodSettings, familyColumnNames: readonly string[]): Promise<WithinFamilies> {
+  const { sortedParts } = table;
   // Not kept once used: 12 bytes a row.
-  table.sorted = undefined;
+  table.sortedParts = undefined;
   try {
-    return adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings, sorted });
+    // A table read and sorted in two parts (one family then, with no weights) is adjusted in two threads when it can be.
+    const tests = typeof options.tests === 'number' ? options.tests : options.tests?.[0];
+    const inTwo = sortedParts && table.families.count === 1 && table.weights === undefined ? await adjustInTwoThreads(table.p, sortedParts, options.methods, options.alpha, tests) : undefined;
+    return inTwo ?? adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings, sortedParts });
   } catch (error) {
     if (!(error instanceof TooFewTestsError || error instanceof ZeroWeightsError)) throw error;
     const values = table.familyValues[error.family] ?? [];
@@ -344,7 +348,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   }
 
   const familyColumnNames = table.familyColumns.map((column) => columnName(table.shape, column));
-  const result = adjustOrExplain(table, options, settings, familyColumnNames);
+  const result = await adjustOrExplain(table, options, settings, familyColumnNames);
   const weightsName = table.weightsColumn === undefined ? undefined : columnName(table.shape, table.weightsColumn);
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');

@@ -42,10 +42,11 @@ export class Growable<T extends NumberArray> {
 
   /**
    * The values pushed, in one array of exactly length (a copy, so later
-   * pushes do not show), followed by those of `then` when given.
+   * pushes do not show), followed by those of `then` when given; allocated
+   * as the constructor's function does, or as `allocate` does.
    */
-  toArray(then?: NumberArray): T {
-    const out = this.allocate(this.length + (then?.length ?? 0));
+  toArray(then?: NumberArray, allocate: (size: number) => T = this.allocate): T {
+    const out = allocate(this.length + (then?.length ?? 0));
     let at = 0;
     for (const block of this.full) {
       out.set(block, at);

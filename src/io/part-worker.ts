@@ -1,13 +1,14 @@
-// The worker thread of io/parts.ts: for each job it is sent, reads or writes
-// one part of a table, and posts what it made (transferring its arrays) or
-// its error.
+// The worker thread of io/parts.ts: for each job it is sent, reads, adjusts
+// (io/parallel-adjust.ts) or writes one part of a table, and posts what it
+// made (transferring its arrays) or its error.
 
 import { createWriteStream } from 'node:fs';
 import { parentPort } from 'node:worker_threads';
 import { DataError } from '../errors.js';
 import { ByteSink } from './byte-sink.js';
 import { plannedColumns } from './column-plan.js';
-import type { PartJob, PartOutcome, ReadPartJob, WritePartJob } from './parts.js';
+import type { PartJob, PartOutcome, ReadPartJob, StepsJob, WritePartJob } from './parts.js';
+import { stepsStage } from './parallel-adjust.js';
 import { type ReadPart, readTablePart } from './read-table.js';
 import { releaseMemory } from './release-memory.js';
 import { type InputSource, rangeSource } from './source.js';
@@ -17,7 +18,7 @@ import { writeTable } from './write-table.js';
 const cancelled = new Set<number>();
 
 /** The part's bytes, unless the job is given up. */
-function partSource(job: PartJob, id: number): InputSource {
+function partSource(job: WritePartJob | ReadPartJob, id: number): InputSource {
   const source = rangeSource(job.name, job.fd, job.start, job.end);
   return {
     ...source,
@@ -43,6 +44,10 @@ async function writePart(job: WritePartJob, id: number): Promise<{ written: numb
   return { written: sink.written, rows };
 }
 
+async function runSteps(job: StepsJob): Promise<unknown> {
+  return stepsStage(job);
+}
+
 function readPart(job: ReadPartJob, id: number): Promise<ReadPart> {
   return readTablePart(partSource(job, id), job.options, job.line, job.sort);
 }
@@ -51,7 +56,8 @@ function readPart(job: ReadPartJob, id: number): Promise<ReadPart> {
 function buffersOf(done: unknown): ArrayBuffer[] {
   if (typeof done !== 'object' || done === null || !('p' in done)) return [];
   const part = done as ReadPart;
-  return [part.p, part.weights, part.familyIds, part.sorted?.order, part.sorted?.sorted].flatMap((array) => (array ? [array.buffer as ArrayBuffer] : []));
+  // Shared memory (the sorted part) is shared, not moved.
+  return [part.p, part.weights, part.familyIds, part.sorted?.order, part.sorted?.sorted].flatMap((array) => (array && array.buffer instanceof ArrayBuffer ? [array.buffer] : []));
 }
 
 parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: number }) => {
@@ -60,7 +66,7 @@ parentPort?.on('message', (message: { id: number; job: PartJob } | { cancel: num
     return;
   }
   const { id, job } = message;
-  const work: Promise<unknown> = job.kind === 'write' ? writePart(job, id) : readPart(job, id);
+  const work: Promise<unknown> = job.kind === 'write' ? writePart(job, id) : job.kind === 'read' ? readPart(job, id) : runSteps(job);
   work.then(
     (done) => {
       parentPort?.postMessage({ id, outcome: { done } satisfies PartOutcome<unknown> }, buffersOf(done));

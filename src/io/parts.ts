@@ -1,9 +1,11 @@
 // Work on one part of a large table in a second thread. Both passes over a
 // table split at a record near the middle of the input: the first pass
 // reads the second half in a worker (read-table.ts), the second pass writes
-// it there (parallel-write.ts), while this thread does the first half. The
-// worker (part-worker.ts) runs the same reader and writer as this thread, so
-// the results are those of one thread; tests compare them.
+// it there (parallel-write.ts), while this thread does the first half; in
+// between, the step procedures adjust each sorted half in its own thread
+// (parallel-adjust.ts). The worker (part-worker.ts) runs the same reader,
+// procedures and writer as this thread, so the results are those of one
+// thread; tests compare them.
 //
 // Only for inputs read by position (a file, or standard input spilled to a
 // temporary file) that are large enough to repay starting a thread.
@@ -45,7 +47,32 @@ export interface ReadPartJob extends PartInput {
   readonly sort: boolean;
 }
 
-export type PartJob = WritePartJob | ReadPartJob;
+/**
+ * The second part's share of adjusting a table sorted in two parts
+ * (io/parallel-adjust.ts) by one method, in two stages: 'running' writes the
+ * part's running values (and first, with withRanks, its ranks); 'adjust'
+ * writes its adjusted values by row and answers with its rejections. Every
+ * array is in shared memory.
+ */
+export interface StepsJob {
+  readonly kind: 'steps';
+  readonly stage: 'running' | 'adjust';
+  readonly withRanks: boolean;
+  /** The method's token (it has a step form). */
+  readonly token: string;
+  readonly m: number;
+  readonly alpha: number;
+  readonly own: { readonly sorted: Float64Array; readonly order: Uint32Array };
+  readonly other: Float64Array;
+  readonly ranks: Uint32Array;
+  readonly ownRunning: Float64Array;
+  readonly otherRunning: Float64Array;
+  readonly target: Float64Array;
+  /** The row of the part's first value. */
+  readonly rowOffset: number;
+}
+
+export type PartJob = WritePartJob | ReadPartJob | StepsJob;
 
 /** A worker's answer to a job: what it made, or its error (dataError: the input's fault, as DataError). */
 export type PartOutcome<T> = { readonly done: T } | { readonly error: string; readonly dataError: boolean };

@@ -6,7 +6,7 @@ import { readSync } from 'node:fs';
 import { DataError, UsageError, quoteText } from '../errors.js';
 import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type PlainColumn, type RecordView, fieldText } from './csv-scan.js';
-import { type Sorted, mergeSorted, sortAscendingInPlace } from '../procedures/sorting.js';
+import { type Sorted, type SortedParts, sortAscendingInPlace } from '../procedures/sorting.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
@@ -45,8 +45,9 @@ export interface ReadOptions {
    */
   readonly reading?: ValueReading | undefined;
   /**
-   * Also sort the p-values when the table is read in two parts (Table.sorted),
-   * for a caller that adjusts them: each thread sorts its own part.
+   * Also sort the p-values when the table is read in two parts
+   * (Table.sortedParts), for a caller that adjusts them: each thread sorts
+   * its own part.
    */
   readonly sortP?: boolean | undefined;
   /** Read an upper bound ("<2e-16") as its value instead of refusing it. */
@@ -126,12 +127,12 @@ export interface Table {
   /** The first data record at or past the middle of the input, when it can be read by position. */
   readonly split?: SplitPoint;
   /**
-   * p sorted, as sortAscending(p) gives it, when the two parts of the table
-   * were read and sorted in two threads (a table with no family columns,
+   * p sorted in its two parts, the first ending at split.row, when the table
+   * was read and sorted in two threads (a table with no family columns,
    * weights or missing p-values). Whoever uses it clears it, so that it is
    * not kept longer than needed (12 bytes a row).
    */
-  sorted?: Sorted | undefined;
+  sortedParts?: SortedParts | undefined;
 }
 
 /** Something the user should know about how the table was read; the id lets callers choose. */
@@ -346,13 +347,25 @@ export async function readTablePart(source: InputSource, options: ReadOptions & 
   const { table, familyKeys, missingRows } = await readRecords(source, options, firstLine);
   if (table.notices.length > 0) throw new Error(`${source.name}: the part has values to remark on`);
   return {
-    sorted: sort && missingRows === 0 ? sortAscendingInPlace(table.p.slice()) : undefined,
+    // In shared memory: the main thread and this one both read it when they adjust the parts (io/parallel-adjust.ts).
+    sorted: sort && missingRows === 0 ? sortAscendingInPlace(sharedCopy(table.p), true) : undefined,
     p: table.p,
     weights: table.weights,
     familyIds: table.familyColumns.length > 0 ? table.families.ids : undefined,
     familyKeys,
     decimalComma: table.decimalComma,
   };
+}
+
+function sharedFloat64(length: number): Float64Array<ArrayBuffer> {
+  // Typed as the plain arrays it stands in for: nothing here tells the two apart.
+  return new Float64Array(new SharedArrayBuffer(8 * length)) as unknown as Float64Array<ArrayBuffer>;
+}
+
+function sharedCopy(values: Float64Array): Float64Array {
+  const copy = sharedFloat64(values.length);
+  copy.set(values);
+  return copy;
 }
 
 /** Searched past the middle of the input for a line break, to split it there. */
@@ -619,10 +632,10 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: contentEnd(source), line: 1, options: { ...options, shape: shape as TableShape }, sort: sortParts });
   };
   /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
-  let sorted: Sorted | undefined;
+  let sortedParts: SortedParts | undefined;
   const takeSecondHalf = async (at: number, line: number): Promise<boolean> => {
     // This part is sorted while the worker finishes its own (it sorts its part when asked to).
-    const ownSorted = sortParts && missingRows === 0 ? sortAscendingInPlace(p.toArray()) : undefined;
+    const ownSorted = sortParts && missingRows === 0 ? sortAscendingInPlace(p.toArray(undefined, sharedFloat64), true) : undefined;
     let part: ReadPart;
     try {
       part = await (second as RunningPart<ReadPart>).result;
@@ -631,7 +644,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     }
     split ??= { offset: at, row: p.length, line };
     addPart(part);
-    if (ownSorted && part.sorted) sorted = mergeSorted(ownSorted, part.sorted);
+    if (ownSorted && part.sorted) sortedParts = { first: ownSorted, second: part.sorted };
     return true;
   };
   try {
@@ -699,7 +712,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     decimalComma: decimalCommaSeen,
     notices,
     ...(split ? { split } : {}),
-    ...(sorted ? { sorted } : {}),
+    ...(sortedParts ? { sortedParts } : {}),
   };
   return { table, familyKeys: [...familyIndex.keys()], missingRows, withWorker: second !== undefined };
 }

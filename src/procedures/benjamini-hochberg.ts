@@ -15,6 +15,7 @@
 // discovery rate: a practical and powerful approach to multiple testing.
 // Journal of the Royal Statistical Society B 57:289-300.
 
+import type { StepForm } from './step-parts.js';
 import { adjustInInputOrder } from './sorting.js';
 
 /**
@@ -42,3 +43,13 @@ export function benjaminiHochbergSorted(sorted: Float64Array, m: number): Float6
 export function adjustBenjaminiHochberg(p: Float64Array, m: number = p.length): Float64Array {
   return adjustInInputOrder(p, m, benjaminiHochbergSorted);
 }
+
+/** BH as a step form: the running minimum of (m / (i + 1)) p(i), capped at 1 (test/step-parts.test.ts checks it against benjaminiHochbergSorted). */
+export const BENJAMINI_HOCHBERG_STEPS: StepForm = {
+  direction: 'up',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = (m / ((ranks[k] as number) + 1)) * (sorted[k] as number);
+  },
+  cap: true,
+  factor: () => 1,
+};

@@ -11,6 +11,7 @@
 // discovery rate in multiple testing under dependency. Annals of Statistics
 // 29:1165-1188, Theorem 1.3.
 
+import type { StepForm } from './step-parts.js';
 import { stepUpMinimum } from './benjamini-hochberg.js';
 import { adjustInInputOrder } from './sorting.js';
 
@@ -65,3 +66,13 @@ export function benjaminiYekutieliSorted(sorted: Float64Array, m: number): Float
 export function adjustBenjaminiYekutieli(p: Float64Array, m: number = p.length): Float64Array {
   return adjustInInputOrder(p, m, benjaminiYekutieliSorted);
 }
+
+/** BY as a step form: BH's running minimum times c(m), capped at 1 (test/step-parts.test.ts checks it against benjaminiYekutieliSorted). */
+export const BENJAMINI_YEKUTIELI_STEPS: StepForm = {
+  direction: 'up',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = (m / ((ranks[k] as number) + 1)) * (sorted[k] as number);
+  },
+  cap: true,
+  factor: harmonicSum,
+};

@@ -12,6 +12,7 @@
 // the American Statistical Association 56:52-64 (the use of Bonferroni's
 // inequality for simultaneous tests).
 
+import type { StepForm } from './step-parts.js';
 import { checkedTestCount } from './validate.js';
 
 /** min(1, m * p) for each p; the order of the values does not matter. */
@@ -25,3 +26,13 @@ export function bonferroniSorted(p: Float64Array, m: number): Float64Array {
 export function adjustBonferroni(p: Float64Array, m: number = p.length): Float64Array {
   return bonferroniSorted(p, checkedTestCount(p, m));
 }
+
+/** Bonferroni as a step form (test/step-parts.test.ts checks it against bonferroniSorted). */
+export const BONFERRONI_STEPS: StepForm = {
+  direction: 'single',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = m * (sorted[k] as number);
+  },
+  cap: true,
+  factor: () => 1,
+};

@@ -14,6 +14,7 @@
 // Source: Hochberg, Y. (1988). A sharper Bonferroni procedure for multiple
 // tests of significance. Biometrika 75:800-802.
 
+import type { StepForm } from './step-parts.js';
 import { adjustInInputOrder } from './sorting.js';
 
 /** Hochberg adjusted values of ascending p-values; m may exceed sorted.length (absent tests count as p = 1). */
@@ -31,3 +32,13 @@ export function hochbergSorted(sorted: Float64Array, m: number): Float64Array {
 export function adjustHochberg(p: Float64Array, m: number = p.length): Float64Array {
   return adjustInInputOrder(p, m, hochbergSorted);
 }
+
+/** Hochberg as a step form: the running minimum of (m - i) p(i), capped at 1 (test/step-parts.test.ts checks it against hochbergSorted). */
+export const HOCHBERG_STEPS: StepForm = {
+  direction: 'up',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = (m - (ranks[k] as number)) * (sorted[k] as number);
+  },
+  cap: true,
+  factor: () => 1,
+};

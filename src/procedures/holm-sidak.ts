@@ -14,6 +14,7 @@
 // scheme); Šidák, Z. (1967). Journal of the American Statistical Association
 // 62:626-633 (the levels).
 
+import type { StepForm } from './step-parts.js';
 import { sidakValue } from './sidak.js';
 import { adjustInInputOrder } from './sorting.js';
 
@@ -32,3 +33,13 @@ export function holmSidakSorted(sorted: Float64Array, m: number): Float64Array {
 export function adjustHolmSidak(p: Float64Array, m: number = p.length): Float64Array {
   return adjustInInputOrder(p, m, holmSidakSorted);
 }
+
+/** Holm–Šidák as a step form (test/step-parts.test.ts checks it against holmSidakSorted). */
+export const HOLM_SIDAK_STEPS: StepForm = {
+  direction: 'down',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = Math.max(sorted[k] as number, sidakValue(sorted[k] as number, m - (ranks[k] as number)));
+  },
+  cap: false,
+  factor: () => 1,
+};

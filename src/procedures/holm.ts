@@ -12,6 +12,7 @@
 // Source: Holm, S. (1979). A simple sequentially rejective multiple test
 // procedure. Scandinavian Journal of Statistics 6:65-70.
 
+import type { StepForm } from './step-parts.js';
 import { adjustInInputOrder } from './sorting.js';
 
 /** Holm adjusted values of ascending p-values; m may exceed sorted.length (absent tests count as p = 1). */
@@ -29,3 +30,13 @@ export function holmSorted(sorted: Float64Array, m: number): Float64Array {
 export function adjustHolm(p: Float64Array, m: number = p.length): Float64Array {
   return adjustInInputOrder(p, m, holmSorted);
 }
+
+/** Holm as a step form: the running maximum of (m - i) p(i), capped at 1 (test/step-parts.test.ts checks it against holmSorted). */
+export const HOLM_STEPS: StepForm = {
+  direction: 'down',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = (m - (ranks[k] as number)) * (sorted[k] as number);
+  },
+  cap: true,
+  factor: () => 1,
+};

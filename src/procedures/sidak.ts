@@ -16,6 +16,7 @@
 // multivariate normal distributions. Journal of the American Statistical
 // Association 62:626-633.
 
+import type { StepForm } from './step-parts.js';
 import { checkedTestCount } from './validate.js';
 
 /** 1 - (1 - p)^m without cancellation; one test (m = 1) returns p itself. */
@@ -35,3 +36,13 @@ export function sidakSorted(p: Float64Array, m: number): Float64Array {
 export function adjustSidak(p: Float64Array, m: number = p.length): Float64Array {
   return sidakSorted(p, checkedTestCount(p, m));
 }
+
+/** Šidák as a step form (test/step-parts.test.ts checks it against sidakSorted). */
+export const SIDAK_STEPS: StepForm = {
+  direction: 'single',
+  terms(sorted, ranks, m, out, at) {
+    for (let k = 0; k < sorted.length; k++) out[at + k] = Math.max(sorted[k] as number, sidakValue(sorted[k] as number, m));
+  },
+  cap: false,
+  factor: () => 1,
+};

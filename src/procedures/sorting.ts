@@ -62,8 +62,12 @@ function wordsOf(values: Float64Array): Uint32Array {
   return new Uint32Array(values.buffer, values.byteOffset, 2 * values.length);
 }
 
-/** sortAscending, using p itself as working space: p is overwritten (it may become the result's sorted). */
-export function sortAscendingInPlace(p: Float64Array): Sorted {
+/**
+ * sortAscending, using p itself as working space: p is overwritten (it may
+ * become the result's sorted). With shared, the arrays it allocates are in
+ * shared memory (and so the result is, if p is), for another thread to read.
+ */
+export function sortAscendingInPlace(p: Float64Array, shared = false): Sorted {
   const n = p.length;
   if (n < SMALL) {
     const order = smallAscendingOrder(p);
@@ -76,9 +80,9 @@ export function sortAscendingInPlace(p: Float64Array): Sorted {
     return { order, sorted: gather(p, order) };
   }
   let keys: Float64Array = p;
-  let spareKeys: Float64Array = new Float64Array(n);
-  let order = new Uint32Array(n);
-  let spare = new Uint32Array(n);
+  let spareKeys: Float64Array = shared ? new Float64Array(new SharedArrayBuffer(8 * n)) : new Float64Array(n);
+  let order = shared ? new Uint32Array(new SharedArrayBuffer(4 * n)) : new Uint32Array(n);
+  let spare = shared ? new Uint32Array(new SharedArrayBuffer(4 * n)) : new Uint32Array(n);
   const counts = countHighDigits(wordsOf(keys), order);
   for (let pass = 0; pass < HIGH_PASSES; pass++) {
     const table = counts.subarray(pass * RADIX, (pass + 1) * RADIX);
@@ -206,6 +210,16 @@ function radixByLowWord(keys: Float64Array, order: Uint32Array, spareKeys: Float
     keys.set(from);
     order.set(fromOrder);
   }
+}
+
+/**
+ * An array sorted in two parts, as two threads sort a table they read in
+ * two parts: first sorts its rows [0, split), second the rows from split on
+ * (its order counted from split), split being first's length.
+ */
+export interface SortedParts {
+  readonly first: Sorted;
+  readonly second: Sorted;
 }
 
 /**

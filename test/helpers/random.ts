@@ -15,3 +15,18 @@ export function awkwardPValues(random: () => number, size: number): Float64Array
   }
   return p;
 }
+
+/**
+ * Ties that cross any split of p into two parts: -0 near the start and 0
+ * near the end, the first value again at the end and in the middle (for p
+ * of more than 10 values; it is changed in place and returned).
+ */
+export function withTiesAcross(p: Float64Array): Float64Array {
+  const size = p.length;
+  if (size <= 10) return p;
+  p[1] = -0;
+  p[size - 2] = 0;
+  p[size - 1] = p[0] as number;
+  p[Math.floor(size / 2)] = p[3] as number;
+  return p;
+}

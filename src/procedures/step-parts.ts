@@ -1,0 +1,145 @@
+// The step procedures on a family sorted in two parts, without merging them.
+//
+// A large table is read and sorted in two threads, one part each
+// (io/read-table.ts). Merging the two sorts into one array, then running a
+// kernel on it and putting every value back in row order, was all done in
+// one thread while the other waited. For the procedures whose adjusted
+// value is a running minimum (step-up) or maximum (step-down) of a term of
+// each p-value and its rank, or a term alone (single-step), each part can
+// instead be adjusted on its own, in its own thread, with only a little from
+// the other part:
+//
+//   - where each of its values falls in the order of the whole family (its
+//     rank): its index in its part plus the number of values of the other
+//     part before it, found by walking the two sorted parts side by side
+//     (ties go to the first part, as a stable sort of the whole puts them);
+//   - the other part's running minima from each of its values to its end
+//     (step-up), or running maxima from its start (step-down).
+//
+// The adjusted value of the value at rank i is then the minimum of its own
+// part's running minimum from it and the other part's from the first of
+// its values after rank i (or the maximum of the two running maxima up to
+// rank i). Minimum and maximum are exact, and the terms and the last step
+// are the same expressions as in each procedure's module (a factor of 1 is
+// exact too), so the results are bit for bit those of the procedure run on
+// the merged family (test/step-parts.test.ts compares them).
+
+/** A step procedure as two parts of a sorted family can share it. */
+export interface StepForm {
+  /**
+   * up: the adjusted value at rank i comes from the minimum of the terms at
+   * ranks i..m-1; down: from the maximum of the terms at ranks 0..i (and 0);
+   * single: from its own term.
+   */
+  readonly direction: 'up' | 'down' | 'single';
+  /**
+   * Writes into out[at + k] the term of sorted[k], whose rank (0 for the
+   * smallest) among m tests is ranks[k]. A loop of each procedure's own, so
+   * that the engine compiles each term inline rather than calling it per value.
+   */
+  terms(sorted: Float64Array, ranks: Uint32Array, m: number, out: Float64Array, at: number): void;
+  /** The adjusted value is factor(m) times the running value (or the term), capped at 1 if cap. */
+  readonly cap: boolean;
+  factor(m: number): number;
+}
+
+/** One part of a sorted family: its values ascending, and the row each came from. */
+export interface SortedPart {
+  readonly sorted: Float64Array;
+  readonly order: Uint32Array;
+}
+
+/**
+ * The rank of each of own's values in the whole family (own and other
+ * merged, stably): its index plus the number of other's values before it.
+ * ownFirst: own is the first part, whose values go first among ties.
+ */
+export function ranksInWhole(own: Float64Array, other: Float64Array, ownFirst: boolean, ranks: Uint32Array = new Uint32Array(own.length)): Uint32Array {
+  let before = 0;
+  const others = other.length;
+  for (let a = 0; a < own.length; a++) {
+    const value = own[a] as number;
+    if (ownFirst) while (before < others && (other[before] as number) < value) before++;
+    else while (before < others && (other[before] as number) <= value) before++;
+    ranks[a] = a + before;
+  }
+  return ranks;
+}
+
+/** The length of partRunning's array for a part of n values. */
+export function runningLength(form: StepForm, n: number): number {
+  return form.direction === 'single' ? n : n + 1;
+}
+
+/**
+ * A part's running values, by its own order, for the other part to use: for
+ * step-up, running[k] is the minimum of the terms of values k.. to the end
+ * (running[n] = Infinity); for step-down, running[k] is the maximum of the
+ * terms of values 0..k-1 (running[0] = 0); for single-step, running[k] is
+ * the term of value k.
+ */
+export function partRunning(form: StepForm, sorted: Float64Array, ranks: Uint32Array, m: number, running: Float64Array = new Float64Array(runningLength(form, sorted.length))): Float64Array {
+  const n = sorted.length;
+  if (form.direction === 'single') {
+    form.terms(sorted, ranks, m, running, 0);
+    return running;
+  }
+  if (form.direction === 'up') {
+    form.terms(sorted, ranks, m, running, 0);
+    running[n] = Infinity;
+    for (let k = n - 1; k >= 0; k--) running[k] = Math.min(running[k] as number, running[k + 1] as number);
+  } else {
+    form.terms(sorted, ranks, m, running, 1);
+    running[0] = 0;
+    for (let k = 1; k <= n; k++) running[k] = Math.max(running[k - 1] as number, running[k] as number);
+  }
+  return running;
+}
+
+/** What a part's adjusted values reject: how many are <= alpha, and the largest p-value among them (-1: none). */
+export interface PartRejections {
+  readonly rejected: number;
+  readonly threshold: number;
+}
+
+/**
+ * The adjusted values of one part, written by row: target[rowOffset +
+ * order[k]] for its k-th value. ownRunning and otherRunning are the two
+ * parts' partRunning; ranks the part's ranksInWhole.
+ */
+export function adjustPart(
+  form: StepForm,
+  part: SortedPart,
+  ranks: Uint32Array,
+  ownRunning: Float64Array,
+  otherRunning: Float64Array,
+  m: number,
+  alpha: number,
+  target: Float64Array,
+  rowOffset: number,
+): PartRejections {
+  const { sorted, order } = part;
+  const factor = form.factor(m);
+  let rejected = 0;
+  let threshold = -1;
+  const n = sorted.length;
+  const cap = form.cap;
+  const up = form.direction === 'up';
+  const down = form.direction === 'down';
+  for (let k = 0; k < n; k++) {
+    // Values of the other part before this one: its rank less its index in its own part.
+    const before = (ranks[k] as number) - k;
+    let running: number;
+    if (up) running = Math.min(ownRunning[k] as number, otherRunning[before] as number);
+    else if (down) running = Math.max(ownRunning[k + 1] as number, otherRunning[before] as number);
+    else running = ownRunning[k] as number;
+    const scaled = factor * running;
+    const value = cap ? Math.min(1, scaled) : scaled;
+    target[rowOffset + (order[k] as number)] = value;
+    if (value <= alpha) {
+      rejected++;
+      threshold = Math.max(threshold, sorted[k] as number);
+    }
+  }
+  return { rejected, threshold };
+}
