@@ -8,7 +8,7 @@
 import type { Pi0Estimate } from './estimators/pi0.js';
 import { DEFAULT_SETTINGS, type Method, type MethodSettings, type WeightedKernel } from './methods.js';
 import { normalisedWeights } from './procedures/weights.js';
-import { type SortedParts, gather, mergeSorted, sortAscending } from './procedures/sorting.js';
+import { type SortedParts, gather, mergeSorted, sharedFloat64, sortAscending } from './procedures/sorting.js';
 import { checkedTestCount } from './procedures/validate.js';
 
 /** Family membership: ids[row] is in [0, count). */
@@ -163,7 +163,7 @@ export function adjustWithinFamilies(
   const complete = missing.every((count) => count === 0);
   const adjustedFor = (k: number): Float64Array => {
     if (made[k] === undefined) {
-      const values = new Float64Array(new SharedArrayBuffer(8 * p.length));
+      const values = sharedFloat64(p.length);
       made[k] = complete ? values : values.fill(NaN);
     }
     return made[k];

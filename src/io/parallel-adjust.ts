@@ -13,7 +13,7 @@
 import { DataError } from '../errors.js';
 import { type FamilyOutcome, TooFewTestsError, type WithinFamilies } from '../families.js';
 import { METHODS, type Method } from '../methods.js';
-import type { Sorted, SortedParts } from '../procedures/sorting.js';
+import { type Sorted, type SortedParts, sharedFloat64 } from '../procedures/sorting.js';
 import { type PartRejections, type StepForm, adjustPart, partRunning, ranksInWhole } from '../procedures/step-parts.js';
 import { checkedTestCount } from '../procedures/validate.js';
 import { type StepsJob, startPart } from './parts.js';
@@ -27,10 +27,6 @@ export function stepsStage(job: StepsJob): PartRejections | null {
     return null;
   }
   return adjustPart(form, job.own, job.ranks, job.ownRunning, job.otherRunning, job.m, job.alpha, job.target, job.rowOffset);
-}
-
-function sharedFloat64(length: number): Float64Array {
-  return new Float64Array(new SharedArrayBuffer(8 * length));
 }
 
 /** The part in shared memory (the sort leaves it there, but for a table with -0 in it). */

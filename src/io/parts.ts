@@ -14,6 +14,7 @@ import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { DataError } from '../errors.js';
+import type { Sorted } from '../procedures/sorting.js';
 import type { ColumnsPlan } from './column-plan.js';
 import type { ReadOptions, TableShape } from './read-table.js';
 import type { InputSource } from './source.js';
@@ -62,7 +63,7 @@ export interface StepsJob {
   readonly token: string;
   readonly m: number;
   readonly alpha: number;
-  readonly own: { readonly sorted: Float64Array; readonly order: Uint32Array };
+  readonly own: Sorted;
   readonly other: Float64Array;
   readonly ranks: Uint32Array;
   readonly ownRunning: Float64Array;

@@ -6,7 +6,7 @@ import { readSync } from 'node:fs';
 import { DataError, UsageError, quoteText } from '../errors.js';
 import { type FamilyGrouping, singleFamily } from '../families.js';
 import { type PlainColumn, type RecordView, fieldText } from './csv-scan.js';
-import { type Sorted, type SortedParts, sortAscendingInPlace } from '../procedures/sorting.js';
+import { type Sorted, type SortedParts, sharedFloat64, sortAscendingInPlace } from '../procedures/sorting.js';
 import { COMMA, type Dialect, sniffDelimiter, sniffLoneCr } from './dialect.js';
 import { Growable } from './growable.js';
 import { MISSING_MARKS, type PValueText, isNumberText, readPValue, readUpperBound, readWeight, underflowed, whyNotPValue, whyNotWeight } from './p-value-text.js';
@@ -357,9 +357,9 @@ export async function readTablePart(source: InputSource, options: ReadOptions & 
   };
 }
 
-function sharedFloat64(length: number): Float64Array<ArrayBuffer> {
-  // Typed as the plain arrays it stands in for: nothing here tells the two apart.
-  return new Float64Array(new SharedArrayBuffer(8 * length)) as unknown as Float64Array<ArrayBuffer>;
+/** sharedFloat64 typed as the plain arrays it stands in for: nothing here tells the two apart. */
+function sharedArray(length: number): Float64Array<ArrayBuffer> {
+  return sharedFloat64(length) as unknown as Float64Array<ArrayBuffer>;
 }
 
 function sharedCopy(values: Float64Array): Float64Array {
@@ -635,7 +635,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   let sortedParts: SortedParts | undefined;
   const takeSecondHalf = async (at: number, line: number): Promise<boolean> => {
     // This part is sorted while the worker finishes its own (it sorts its part when asked to).
-    const ownSorted = sortParts && missingRows === 0 ? sortAscendingInPlace(p.toArray(undefined, sharedFloat64), true) : undefined;
+    const ownSorted = sortParts && missingRows === 0 ? sortAscendingInPlace(p.toArray(undefined, sharedArray), true) : undefined;
     let part: ReadPart;
     try {
       part = await (second as RunningPart<ReadPart>).result;

@@ -12,7 +12,7 @@
 // 29:1165-1188, Theorem 1.3.
 
 import type { StepForm } from './step-parts.js';
-import { stepUpMinimum } from './benjamini-hochberg.js';
+import { BENJAMINI_HOCHBERG_STEPS, stepUpMinimum } from './benjamini-hochberg.js';
 import { adjustInInputOrder } from './sorting.js';
 
 /** Above this m, the asymptotic expansion is exact to the last bit and the sum would be slow. */
@@ -70,9 +70,8 @@ export function adjustBenjaminiYekutieli(p: Float64Array, m: number = p.length):
 /** BY as a step form: BH's running minimum times c(m), capped at 1 (test/step-parts.test.ts checks it against benjaminiYekutieliSorted). */
 export const BENJAMINI_YEKUTIELI_STEPS: StepForm = {
   direction: 'up',
-  terms(sorted, ranks, m, out, at) {
-    for (let k = 0; k < sorted.length; k++) out[at + k] = (m / ((ranks[k] as number) + 1)) * (sorted[k] as number);
-  },
+  // BH's term, (m / (i + 1)) p(i); the running minimum is then scaled by c(m).
+  terms: BENJAMINI_HOCHBERG_STEPS.terms,
   cap: true,
   factor: harmonicSum,
 };

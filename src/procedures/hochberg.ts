@@ -14,6 +14,7 @@
 // Source: Hochberg, Y. (1988). A sharper Bonferroni procedure for multiple
 // tests of significance. Biometrika 75:800-802.
 
+import { HOLM_STEPS } from './holm.js';
 import type { StepForm } from './step-parts.js';
 import { adjustInInputOrder } from './sorting.js';
 
@@ -36,9 +37,8 @@ export function adjustHochberg(p: Float64Array, m: number = p.length): Float64Ar
 /** Hochberg as a step form: the running minimum of (m - i) p(i), capped at 1 (test/step-parts.test.ts checks it against hochbergSorted). */
 export const HOCHBERG_STEPS: StepForm = {
   direction: 'up',
-  terms(sorted, ranks, m, out, at) {
-    for (let k = 0; k < sorted.length; k++) out[at + k] = (m - (ranks[k] as number)) * (sorted[k] as number);
-  },
+  // Holm's term, (m - i) p(i), taken as a running minimum instead of a maximum.
+  terms: HOLM_STEPS.terms,
   cap: true,
   factor: () => 1,
 };

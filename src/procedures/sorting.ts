@@ -57,6 +57,11 @@ export function sortAscending(p: Float64Array): Sorted {
   return sortAscendingInPlace(p.slice());
 }
 
+/** A Float64Array in shared memory, which a worker thread can read and write where it lies. */
+export function sharedFloat64(length: number): Float64Array {
+  return new Float64Array(new SharedArrayBuffer(8 * length));
+}
+
 /** The 32-bit words of a view of doubles: word 2i is the low half of value i, 2i + 1 its high half (little-endian). */
 function wordsOf(values: Float64Array): Uint32Array {
   return new Uint32Array(values.buffer, values.byteOffset, 2 * values.length);
@@ -80,7 +85,7 @@ export function sortAscendingInPlace(p: Float64Array, shared = false): Sorted {
     return { order, sorted: gather(p, order) };
   }
   let keys: Float64Array = p;
-  let spareKeys: Float64Array = shared ? new Float64Array(new SharedArrayBuffer(8 * n)) : new Float64Array(n);
+  let spareKeys: Float64Array = shared ? sharedFloat64(n) : new Float64Array(n);
   let order = shared ? new Uint32Array(new SharedArrayBuffer(4 * n)) : new Uint32Array(n);
   let spare = shared ? new Uint32Array(new SharedArrayBuffer(4 * n)) : new Uint32Array(n);
   const counts = countHighDigits(wordsOf(keys), order);
