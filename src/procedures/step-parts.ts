@@ -24,6 +24,8 @@
 // exact too), so the results are bit for bit those of the procedure run on
 // the merged family (test/step-parts.test.ts compares them).
 
+import type { Sorted } from './sorting.js';
+
 /** A step procedure as two parts of a sorted family can share it. */
 export interface StepForm {
   /**
@@ -41,12 +43,6 @@ export interface StepForm {
   /** The adjusted value is factor(m) times the running value (or the term), capped at 1 if cap. */
   readonly cap: boolean;
   factor(m: number): number;
-}
-
-/** One part of a sorted family: its values ascending, and the row each came from. */
-export interface SortedPart {
-  readonly sorted: Float64Array;
-  readonly order: Uint32Array;
 }
 
 /**
@@ -109,7 +105,7 @@ export interface PartRejections {
  */
 export function adjustPart(
   form: StepForm,
-  part: SortedPart,
+  part: Sorted,
   ranks: Uint32Array,
   ownRunning: Float64Array,
   otherRunning: Float64Array,
