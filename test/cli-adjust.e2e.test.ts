@@ -308,6 +308,14 @@ describe('errors name the place and the text, with the right status', () => {
     expect(readFileSync(target, 'utf8')).toBe('p,adj_bh,rej_bh\n0.2,0.2,false\n');
   });
 
+  it('refuses an empty output, summary or plot name, saying what it needs', () => {
+    for (const flag of ['-o', '--summary', '--plot']) {
+      const run = famwise(['adjust', '--values', '0.2', flag, '']);
+      expect(run.status).toBe(2);
+      expect(run.stderr).toBe(`famwise: ${flag === '-o' ? '--output' : flag} "": needs a file name, or - for standard output\n`);
+    }
+  });
+
   it('treats -o /dev/stdout as standard output, so the summary cannot go there too', () => {
     const run = famwise(['adjust', '--values', '0.2', '-o', '/dev/stdout', '--summary', '-']);
     expect(run.status).toBe(2);

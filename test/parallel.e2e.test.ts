@@ -12,6 +12,7 @@ import { spawnSync } from 'node:child_process';
 import { appendFileSync, closeSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
 import { bufferSource, fileSource, rangeSource } from '../dist/io/source.js';
 import { inParts } from '../dist/io/parts.js';
@@ -236,6 +237,19 @@ describe('writing in two parts', () => {
     const text = table('id,chrom,p\n', 400_000, (i) => `variant${i},${1 + (i % 22)},${i === 300_000 ? '1e-400' : p()}\n`);
     expect(text.length).toBeGreaterThan(2 * (4 << 20));
     sameBothWays(['adjust', write('chunks.csv', text), '--family', 'chrom']);
+  });
+
+  it('changes nothing when the worker started before the command loaded is not used (gzip is read in one thread; audit never in parts)', () => {
+    const text = table('id,p\n', 3000, (i) => `r${i},${p()}\n`);
+    const zipped = write('early.csv.gz', gzipSync(text));
+    const started = Date.now();
+    const out = sameBothWays(['adjust', zipped, '--methods', 'bh,holm', '-q']);
+    // An idle worker does not hold the process open (the vitest timeout would catch a hang; this, a stall).
+    expect(Date.now() - started).toBeLessThan(20_000);
+    expect(out.toString().split('\n')).toHaveLength(3002);
+    const plain = write('early.csv', text);
+    sameBothWays(['adjust', plain, '--methods', 'bh', '--summary', 'early-summary.json', '-q']);
+    sameBothWays(['inspect', plain, '--family', 'nonesuch']);
   });
 
   it('writes in one thread when no temporary file can be made (TMPDIR missing)', () => {

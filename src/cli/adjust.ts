@@ -24,7 +24,7 @@ Examples:
   famwise adjust screen.csv --family plate --tests 384 --summary summary.json`;
 
 import { type Command, Option } from 'commander';
-import { z } from 'zod';
+import * as z from 'zod';
 import { DataError, IncompleteOutputError, UsageError, quoteText } from '../errors.js';
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
@@ -70,11 +70,11 @@ const adjustOptionsSchema = inputOptionsSchema.extend({
       if (items.every((item) => item.trim() === '')) context.addIssue({ code: 'custom', message: 'needs at least one p-value' });
     })
     .optional(),
-  output: z.string().min(1).optional(),
-  summary: z.string().min(1).optional(),
+  output: z.string().min(1, 'needs a file name, or - for standard output').optional(),
+  summary: z.string().min(1, 'needs a file name, or - for standard output').optional(),
   format: z.enum(['csv', 'tsv', 'jsonl', 'table'], { message: 'accepts csv, tsv, jsonl or table' }).optional(),
   weights: z.string().min(1, 'needs the name or 1-based position of the column of weights').optional(),
-  plot: z.string().min(1).optional(),
+  plot: z.string().min(1, 'needs a file name, or - for standard output').optional(),
   replace: z.boolean().default(false),
   quiet: z.boolean().default(false),
   pi0: z.enum(PI0_ESTIMATORS, { message: `accepts ${PI0_ESTIMATORS.join(', ')}` }).optional(),

@@ -17,7 +17,7 @@ Examples (without --method, audit finds the procedure that fits):
   famwise audit scan.tsv --adjusted-column q --family chrom --json`;
 
 import type { Command } from 'commander';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { Grouping, Printed } from '../audit/audit.js';
 import { UsageError, quoteText } from '../errors.js';
 import { AUDIT_EXIT_HELP, EXIT } from '../exit-codes.js';

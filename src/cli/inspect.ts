@@ -20,7 +20,7 @@ Examples:
 
 import type { Command } from 'commander';
 import type { FamilyInspection } from '../diagnostics/inspect-family.js';
-import { z } from 'zod';
+import * as z from 'zod';
 import { UsageError } from '../errors.js';
 import { openOutput, routeOutput } from '../io/atomic-file.js';
 import { columnName, readTable } from '../io/read-table.js';
@@ -35,7 +35,7 @@ const inspectOptionsSchema = inputOptionsSchema.extend({
     .refine((text) => /^\d+$/.test(text.trim()) && Number(text) >= 1 && Number(text) <= 200, 'needs a whole number of histogram bins from 1 to 200')
     .transform(Number),
   json: z.boolean().default(false),
-  plot: z.string().min(1).optional(),
+  plot: z.string().min(1, 'needs a file name, or - for standard output').optional(),
   quiet: z.boolean().default(false),
 });
 

@@ -11,7 +11,7 @@ Examples:
   famwise methods --json | jq -r '.[] | select(.controls == "FDR") | .token'`;
 
 import { Command } from 'commander';
-import { z } from 'zod';
+import * as z from 'zod';
 import { EXIT_HELP } from '../exit-codes.js';
 import { METHODS } from '../methods.js';
 import { parseOptions } from './options.js';

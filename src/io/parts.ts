@@ -10,17 +10,13 @@
 // Only for inputs read by position (a file, or standard input spilled to a
 // temporary file) that are large enough to repay starting a thread.
 
-import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
-import { Worker } from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
 import { DataError } from '../errors.js';
 import type { Sorted } from '../procedures/sorting.js';
 import type { ColumnsPlan } from './column-plan.js';
 import type { ReadOptions, TableShape } from './read-table.js';
 import type { InputSource } from './source.js';
-
-/** Below this many bytes of input one thread does it all: starting a worker costs about 50 ms. */
-const SMALLEST = 8 << 20;
+import { newWorker, smallestInParts, takeEarlyWorker, workerFile } from './worker-thread.js';
 
 /** The part of the input a worker reads: bytes [start, end) of a descriptor (end Infinity: to the end of the file), from the record on line `line`. */
 export interface PartInput {
@@ -78,25 +74,9 @@ export type PartJob = WritePartJob | ReadPartJob | StepsJob;
 /** A worker's answer to a job: what it made, or its error (dataError: the input's fault, as DataError). */
 export type PartOutcome<T> = { readonly done: T } | { readonly error: string; readonly dataError: boolean };
 
-/**
- * The worker's bundle (scripts/bundle.mjs), beside the command's bundle or,
- * from the compiled modules, in dist/cli; undefined when running from the
- * sources, which then do everything in one thread.
- */
-function workerFile(): string | undefined {
-  return ['./part-worker.mjs', '../cli/part-worker.mjs'].map((relative) => fileURLToPath(new URL(relative, import.meta.url))).find((path) => existsSync(path));
-}
-
-/** Smallest input (bytes) done in two parts; FAMWISE_PARALLEL_MIN_BYTES sets it (tests use 0; a huge number turns it off). */
-function smallest(): number {
-  const text = process.env.FAMWISE_PARALLEL_MIN_BYTES?.trim() ?? '';
-  const set = Number(text);
-  return text !== '' && set >= 0 ? set : SMALLEST;
-}
-
 /** Whether a source is worth doing in two parts, and can be. */
 export function inParts(source: InputSource): boolean {
-  return source.descriptor !== undefined && source.size !== undefined && source.size >= smallest() && workerFile() !== undefined;
+  return source.descriptor !== undefined && source.size !== undefined && source.size >= smallestInParts() && workerFile() !== undefined;
 }
 
 export interface RunningPart<T> {
@@ -115,23 +95,16 @@ export interface RunningPart<T> {
 type Settle = (outcome: PartOutcome<unknown> | { readonly failed: Error }) => void;
 
 /**
- * The one worker, started as early as the input is known (warmUp) so that
- * it is ready by the time there is a part for it, and kept for both passes.
+ * The one worker, started before the command was loaded (worker-thread.ts)
+ * or else as soon as the input is known (warmUp), so that it is ready by
+ * the time there is a part for it, and kept for both passes.
  * It holds the process open only while a job is waited for.
  */
 let shared: { readonly worker: Worker; readonly waiting: Map<number, Settle>; next: number } | undefined;
 
-/**
- * The worker's young generation, in MB: what a main thread's can grow to on
- * a 64-bit system (three 16 MB semi-spaces' worth; V8's defaults, from memory).
- */
-const YOUNG_GENERATION_MB = 48;
-
 function sharedWorker(): NonNullable<typeof shared> {
   if (shared) return shared;
-  // A worker's young generation is small by default: reading half of a large table in it then
-  // took about 1.6 times as long as in this thread (frequent scavenges). The main thread's size.
-  const worker = new Worker(workerFile() as string, { resourceLimits: { maxYoungGenerationSizeMb: YOUNG_GENERATION_MB } });
+  const worker = takeEarlyWorker() ?? newWorker(workerFile() as string);
   const state = { worker, waiting: new Map<number, Settle>(), next: 0 };
   const failAll = (error: Error): void => {
     if (shared === state) shared = undefined;

@@ -1,0 +1,128 @@
+// Starting the worker thread that does half of a large table (parts.ts,
+// part-worker.ts), and starting it early.
+//
+// A worker takes about 0.1 s to start (its own engine, Node's modules, its
+// bundle), and the first half of the table is being read by then. The
+// command's first module (cli/famwise.ts) therefore starts it before the
+// rest of the command is even loaded, when the arguments name a file large
+// enough to be read in two parts (or standard input is one), so that it is
+// ready when the reading starts. A guess: parts.ts takes the worker if the
+// table turns out to be read in parts, and otherwise it stays idle and ends
+// with the process.
+
+import { fstatSync, existsSync, statSync, type Stats } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { setFlagsFromString } from 'node:v8';
+import { Worker } from 'node:worker_threads';
+
+/** Below this many bytes of input one thread does it all: starting a worker costs about 50 ms. */
+const SMALLEST = 8 << 20;
+
+/**
+ * The worker's young generation, in MB: what a main thread's can grow to on
+ * a 64-bit system (three 16 MB semi-spaces' worth; V8's defaults, from memory).
+ * A worker's is small by default: reading half of a large table in it then
+ * took about 1.6 times as long as in the main thread (frequent scavenges).
+ */
+const YOUNG_GENERATION_MB = 48;
+
+/** The commands whose tables may be read in two parts (read-table.ts), and the options that name output files, not inputs. */
+const COMMANDS_IN_PARTS = new Set(['adjust', 'inspect']);
+const OUTPUT_OPTIONS = new Set(['-o', '--output', '--summary', '--plot']);
+
+/** Where the started worker waits to be taken: the command's first module and the rest are bundled apart. */
+const EARLY = Symbol.for('famwise.early-worker');
+interface Early {
+  readonly worker: Worker;
+  stopped: boolean;
+  readonly stop: () => void;
+}
+
+/**
+ * The worker's bundle (scripts/bundle.mjs), beside the command's bundle or,
+ * from the compiled modules, in dist/cli; undefined when running from the
+ * sources, which then do everything in one thread.
+ */
+export function workerFile(): string | undefined {
+  return ['./part-worker.mjs', '../cli/part-worker.mjs'].map((relative) => fileURLToPath(new URL(relative, import.meta.url))).find((path) => existsSync(path));
+}
+
+/** Smallest input (bytes) done in two parts; FAMWISE_PARALLEL_MIN_BYTES sets it (tests use 0; a huge number turns it off). */
+export function smallestInParts(): number {
+  const text = process.env.FAMWISE_PARALLEL_MIN_BYTES?.trim() ?? '';
+  const set = Number(text);
+  return text !== '' && set >= 0 ? set : SMALLEST;
+}
+
+/** A new worker; the caller listens for its errors. */
+export function newWorker(file: string): Worker {
+  // With two cores, both busy with the table, compiling in a background thread (V8's default)
+  // only competes with them while the worker runs slower code meanwhile; its engine, created
+  // after this, compiles in its own thread. (The main thread's engine exists already and keeps
+  // the default.) At 1M rows, about 7% less CPU time in all.
+  if (availableParallelism() <= 2) setFlagsFromString('--no-concurrent-recompilation');
+  return new Worker(file, { resourceLimits: { maxYoungGenerationSizeMb: YOUNG_GENERATION_MB } });
+}
+
+function isLargeFile(stat: Stats): boolean {
+  return stat.isFile() && stat.size >= smallestInParts();
+}
+
+/** Whether the command line looks like one that will read a table in two parts (a guess, from the arguments alone). */
+export function looksParted(args: readonly string[], stdinStat: () => Stats | undefined): boolean {
+  const at = args.findIndex((arg) => !arg.startsWith('-'));
+  if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return false;
+  const rest = args.slice(at + 1);
+  const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
+  const large = paths.some((path) => {
+    try {
+      return isLargeFile(statSync(path));
+    } catch {
+      return false;
+    }
+  });
+  if (large) return true;
+  const stdin = stdinStat();
+  return stdin !== undefined && isLargeFile(stdin);
+}
+
+function stdinStat(): Stats | undefined {
+  try {
+    return fstatSync(0);
+  } catch {
+    return undefined;
+  }
+}
+
+/** Starts the worker now if the arguments suggest a table read in two parts; see the top of the file. */
+export function startEarly(args: readonly string[]): void {
+  const file = workerFile();
+  if (file === undefined || !looksParted(args, stdinStat)) return;
+  let worker: Worker;
+  try {
+    worker = newWorker(file);
+  } catch {
+    return;
+  }
+  // Noted here, since no one else listens yet; parts.ts then does not take a worker that has stopped.
+  const stop = (): void => {
+    early.stopped = true;
+  };
+  const early: Early = { worker, stopped: false, stop };
+  worker.on('error', stop);
+  worker.on('exit', stop);
+  // Never what keeps the process alive.
+  worker.unref();
+  (globalThis as Record<symbol, unknown>)[EARLY] = early;
+}
+
+/** The worker started early, if there is one still running; it is then the caller's. */
+export function takeEarlyWorker(): Worker | undefined {
+  const slot = globalThis as Record<symbol, unknown>;
+  const early = slot[EARLY] as Early | undefined;
+  slot[EARLY] = undefined;
+  if (early === undefined || early.stopped) return undefined;
+  early.worker.off('error', early.stop).off('exit', early.stop);
+  return early.worker;
+}

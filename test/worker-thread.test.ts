@@ -1,0 +1,51 @@
+// The guess, from the arguments alone, that a table will be read in two
+// parts, on which the command's first module starts the worker thread
+// before loading the rest (io/worker-thread.ts).
+import { mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { looksParted } from '../dist/io/worker-thread.js';
+
+const work = mkdtempSync(join(tmpdir(), 'famwise-early-'));
+const big = join(work, 'big.csv');
+const small = join(work, 'small.csv');
+writeFileSync(big, 'p\n'.padEnd(4000, '0'));
+writeFileSync(small, 'p\n0.5\n');
+const saved = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+process.env.FAMWISE_PARALLEL_MIN_BYTES = '1000';
+afterAll(() => {
+  if (saved === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+  else process.env.FAMWISE_PARALLEL_MIN_BYTES = saved;
+  rmSync(work, { recursive: true, force: true });
+});
+
+const noStdin = (): undefined => undefined;
+
+describe('looksParted', () => {
+  it('is true for adjust and inspect of a file at least the size set, wherever the file comes among the options', () => {
+    expect(looksParted(['adjust', big], noStdin)).toBe(true);
+    expect(looksParted(['adjust', '--methods', 'bh,holm', big, '-q'], noStdin)).toBe(true);
+    expect(looksParted(['inspect', big], noStdin)).toBe(true);
+  });
+
+  it('is false for a smaller file, a missing one, other commands and no command', () => {
+    expect(looksParted(['adjust', small], noStdin)).toBe(false);
+    expect(looksParted(['adjust', join(work, 'missing.csv')], noStdin)).toBe(false);
+    expect(looksParted(['audit', big, '--adjusted-column', 'q'], noStdin)).toBe(false);
+    expect(looksParted(['methods'], noStdin)).toBe(false);
+    expect(looksParted(['--version'], noStdin)).toBe(false);
+    expect(looksParted([], noStdin)).toBe(false);
+  });
+
+  it('does not take a large output file (-o, --output, --summary, --plot) for the input', () => {
+    for (const flag of ['-o', '--output', '--summary', '--plot']) expect(looksParted(['adjust', small, flag, big], noStdin)).toBe(false);
+  });
+
+  it('is true for standard input redirected from a large file, false from a small one or none', () => {
+    expect(looksParted(['adjust', '--methods', 'bh'], () => statSync(big))).toBe(true);
+    expect(looksParted(['adjust'], () => statSync(small))).toBe(false);
+    expect(looksParted(['adjust'], () => statSync(work))).toBe(false);
+    expect(looksParted(['adjust'], noStdin)).toBe(false);
+  });
+});
