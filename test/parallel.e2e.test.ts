@@ -281,3 +281,78 @@ describe('writing in two parts', () => {
     sameBothWays(['adjust', name, '--statistic', 'z', '--statistic-column', 'z', '-q']);
   });
 });
+
+// The worker writes its part straight into the output file (-o), where the
+// first part's output will end, told ahead from the first part's adjusted
+// values as they were made (io/parallel-write.ts, OutputInPlace).
+describe('writing the second part in place', () => {
+  /** Runs with -o both ways and expects the same status, messages and file. */
+  function sameFileBothWays(args: string[], name: string): Buffer {
+    const parts = run([...args, '-o', `${name}.parts.out`], '0');
+    const single = run([...args, '-o', `${name}.single.out`], ONE_THREAD);
+    expect(parts.stderr).toBe(single.stderr);
+    expect(parts.status).toBe(single.status);
+    const written = readFileSync(join(work, `${name}.parts.out`));
+    expect(written.equals(readFileSync(join(work, `${name}.single.out`)))).toBe(true);
+    return written;
+  }
+
+  // Numbers of every kind in the new cells: 1, 0, values String() writes (1e-300, 5e-7), 15 to 17 digits, p at alpha.
+  const value = (i: number): string => (i % 97 === 0 ? '0' : i % 89 === 0 ? '1e-300' : i % 83 === 0 ? '5e-7' : i % 79 === 0 ? '0.05' : p());
+
+  it('gives the file of one thread with a byte-order mark, CRLF, blank lines and quoted fields in the first part', () => {
+    const text = '\ufeff' + table('id,"note, with comma",p\r\n', 5000, (i) => `r${i},"n ""${i}""",${value(i)}\r\n${i % 11 === 0 ? '\r\n' : ''}`);
+    const out = sameFileBothWays(['adjust', write('in-place.csv', text), '--methods', 'bh,holm,bonferroni,by,sidak', '-q'], 'in-place');
+    expect(out.toString().split('\r\n').filter((line) => line.startsWith('r')).length).toBe(5000);
+  });
+
+  it('gives the file of one thread without a header, with decimal commas and tabs, and with --tests', () => {
+    sameFileBothWays(['adjust', write('no-header.csv', table('', 5000, (i) => `r${i},${value(i)}\n`)), '--no-header', '--p-column', '2', '-q'], 'no-header');
+    sameFileBothWays(['adjust', write('commas.tsv', table('id\tp\n', 5000, (i) => `r${i}\t${value(i).replace('.', ',')}\n`)), '--methods', 'holm,hochberg', '-q'], 'commas');
+    sameFileBothWays(['adjust', write('tests.csv', table('id,p\n', 5000, (i) => `r${i},${value(i)}\n`)), '--methods', 'bh', '--tests', '1000000', '-q'], 'tests');
+  });
+
+  it('tells the bytes of the first part exactly, and writes the whole file right when told wrong (the worker then written over)', async () => {
+    const { adjustInTwoThreads } = await import('../dist/io/parallel-adjust.js');
+    const { firstPartCellBytes, writeTableInParts } = await import('../dist/io/parallel-write.js');
+    const { firstPartOutputBytes, writeTable } = await import('../dist/io/write-table.js');
+    const { plannedColumns } = await import('../dist/io/column-plan.js');
+    const { numberTextLength } = await import('../dist/io/number-text.js');
+    const { ByteSink } = await import('../dist/io/byte-sink.js');
+    const { openOutput } = await import('../dist/io/atomic-file.js');
+    const { METHODS } = await import('../dist/methods.js');
+    const path = join(work, write('told.csv', '\ufeff' + table('id,p\r\n', 4000, (i) => `r${i},${value(i)}\r\n${i % 13 === 0 ? '\n' : ''}`)));
+    const methods = METHODS.filter((method) => ['bh', 'holm', 'sidak'].includes(method.token));
+    const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+    process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
+    try {
+      const written = async (output: string, into: (fd: number | undefined, sink: InstanceType<typeof ByteSink>) => Promise<void>): Promise<Buffer> => {
+        const file = openOutput(join(work, output));
+        const sink = new ByteSink(file.stream);
+        await into(file.fd, sink);
+        await file.finish();
+        file.install();
+        return readFileSync(join(work, output));
+      };
+      const table = await readTable(fileSource(path), { sortP: true });
+      const split = table.split as NonNullable<typeof table.split>;
+      const result = await adjustInTwoThreads(table.p, table.sortedParts as NonNullable<typeof table.sortedParts>, methods, 0.05, undefined, numberTextLength);
+      const plan = { alpha: 0.05, decimalComma: false, columns: methods.flatMap((method, k) => [{ name: `adj_${method.token}`, kind: 'number' as const, values: result?.adjusted[k] as Float64Array }, { name: `rej_${method.token}`, kind: 'decision' as const, values: result?.adjusted[k] as Float64Array }]) };
+      const format = { delimiter: 0x2c };
+      const cellBytes = firstPartCellBytes(plan, result?.adjusted ?? [], result?.firstPart) as number;
+      // What one thread writes, and of that, the first part.
+      const whole = await written('told-whole.out', (_fd, sink) => writeTable(fileSource(path), table.shape, plannedColumns(plan), format, sink, table.p.length).then(() => {}));
+      const first = await written('told-first.out', (_fd, sink) => writeTable(rangeSource('told.csv', openSync(path, 'r'), 0, split.offset), table.shape, plannedColumns(plan), format, sink, split.row, {}).then(() => {}));
+      expect(firstPartOutputBytes(table.shape, plannedColumns(plan), format, split.offset, cellBytes)).toBe(first.length);
+      for (const off of [0, 1, -1, 5000, -first.length + 10]) {
+        const out = await written(`told-${off}.out`, async (fd, sink) => {
+          await writeTableInParts(fileSource(path), table.shape, plan, format, sink, table.p.length, split, { fd: fd as number, firstCellBytes: cellBytes + off });
+        });
+        expect({ off, length: out.length, same: out.equals(whole) }).toEqual({ off, length: whole.length, same: true });
+      }
+    } finally {
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
+    }
+  });
+});

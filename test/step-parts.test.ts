@@ -49,6 +49,31 @@ describe('step procedures in two parts', () => {
     });
   }
 
+  for (const method of stepMethods) {
+    it(`${method.token}: measures each part's adjusted values, once per run of equal values`, () => {
+      const random = seededRandom(57 + method.token.length);
+      const p = withTiesAcross(awkwardPValues(random, 2000));
+      const form = method.stepForm as StepForm;
+      const split = 777;
+      const first = sortAscending(p.subarray(0, split));
+      const second = sortAscending(p.subarray(split));
+      const firstRanks = ranksInWhole(first.sorted, second.sorted, true);
+      const firstRunning = partRunning(form, first.sorted, firstRanks, p.length);
+      const secondRunning = partRunning(form, second.sorted, ranksInWhole(second.sorted, first.sorted, false), p.length);
+      const adjusted = new Float64Array(p.length).fill(NaN);
+      let calls = 0;
+      const measure = (value: number): number => {
+        calls++;
+        return String(value).length;
+      };
+      const part = adjustPart(form, first, firstRanks, firstRunning, secondRunning, p.length, 0.05, adjusted, 0, measure);
+      const values = Array.from(adjusted.subarray(0, split));
+      expect(part.measured).toBe(values.reduce((sum, value) => sum + String(value).length, 0));
+      expect(calls).toBe(new Set(values).size);
+      expect(adjustPart(form, first, firstRanks, firstRunning, secondRunning, p.length, 0.05, adjusted, 0).measured).toBe(0);
+    });
+  }
+
   it('ranks each value of a part in the whole family, ties going to the first part', () => {
     const first = Float64Array.of(0.1, 0.2, 0.2, 0.5);
     const second = Float64Array.of(0.05, 0.2, 0.6);

@@ -29,7 +29,7 @@ import { DataError, IncompleteOutputError, UsageError, quoteText } from '../erro
 import { TooFewTestsError, type WithinFamilies, ZeroWeightsError, adjustWithinFamilies } from '../families.js';
 import { ByteSink } from '../io/byte-sink.js';
 import { COMMA, TAB } from '../io/dialect.js';
-import { compressedIfNamed } from '../io/gzip.js';
+import { compressedIfNamed, gzipNamed } from '../io/gzip.js';
 import { type OutputFile, openOutput, routeOutput } from '../io/atomic-file.js';
 import { MISSING_MARKS, isNumberText, readPValue, readUpperBound } from '../io/p-value-text.js';
 import { columnName, readTable, type Table } from '../io/read-table.js';
@@ -37,8 +37,9 @@ import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
-import { writeTableInParts } from '../io/parallel-write.js';
-import { adjustInTwoThreads } from '../io/parallel-adjust.js';
+import { firstPartCellBytes, writeTableInParts } from '../io/parallel-write.js';
+import { type FirstPartMeasures, adjustInTwoThreads } from '../io/parallel-adjust.js';
+import { numberTextLength } from '../io/number-text.js';
 import { inParts } from '../io/parts.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
@@ -253,15 +254,24 @@ function methodSettings(options: AdjustOptions): MethodSettings {
   return { pi0 };
 }
 
-/** Adjusts within families; a --tests too small for a family becomes a usage error naming it. */
-async function adjustOrExplain(table: Table, options: AdjustOptions, settings: MethodSettings, familyColumnNames: readonly string[]): Promise<WithinFamilies> {
+/**
+ * Adjusts within families; a --tests too small for a family becomes a usage
+ * error naming it. measureFirst: see adjustInTwoThreads.
+ */
+async function adjustOrExplain(
+  table: Table,
+  options: AdjustOptions,
+  settings: MethodSettings,
+  familyColumnNames: readonly string[],
+  measureFirst?: (value: number) => number,
+): Promise<WithinFamilies & { readonly firstPart?: FirstPartMeasures }> {
   const { sortedParts } = table;
   // Not kept once used: 12 bytes a row.
   table.sortedParts = undefined;
   try {
     // A table read and sorted in two parts (one family then, with no weights) is adjusted in two threads when it can be.
     const tests = typeof options.tests === 'number' ? options.tests : options.tests?.[0];
-    const inTwo = sortedParts && table.families.count === 1 && table.weights === undefined ? await adjustInTwoThreads(table.p, sortedParts, options.methods, options.alpha, tests) : undefined;
+    const inTwo = sortedParts && table.families.count === 1 && table.weights === undefined ? await adjustInTwoThreads(table.p, sortedParts, options.methods, options.alpha, tests, measureFirst) : undefined;
     return inTwo ?? adjustWithinFamilies(table.p, table.families, options.methods, { alpha: options.alpha, tests: options.tests, weights: table.weights, settings, sortedParts });
   } catch (error) {
     if (!(error instanceof TooFewTestsError || error instanceof ZeroWeightsError)) throw error;
@@ -283,6 +293,7 @@ async function writeOutputs(
   summary: Summary,
   targets: { table?: string; summary?: string; plot?: string },
   plot: () => Promise<string>,
+  firstCellBytes: number | undefined,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -294,7 +305,10 @@ async function writeOutputs(
   const sink = new ByteSink(tableFile.stream);
   try {
     if (format === 'jsonl') await writeJsonLines(source, table.shape, plannedColumns(plan), sink, table.p.length);
-    else if ('delimiter' in format && table.split && inParts(source)) await writeTableInParts(source, table.shape, plan, format, sink, table.p.length, table.split);
+    else if ('delimiter' in format && table.split && inParts(source)) {
+      const inPlace = tableFile.fd !== undefined && firstCellBytes !== undefined ? { fd: tableFile.fd, firstCellBytes } : undefined;
+      await writeTableInParts(source, table.shape, plan, format, sink, table.p.length, table.split, inPlace);
+    }
     else await writeTable(source, table.shape, plannedColumns(plan), format, sink, table.p.length);
   } catch (error) {
     // A reader that stops early (famwise adjust big.csv | head) is not a failure: the rest still gets done.
@@ -348,18 +362,22 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   }
 
   const familyColumnNames = table.familyColumns.map((column) => columnName(table.shape, column));
-  const result = await adjustOrExplain(table, options, settings, familyColumnNames);
+  const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
+  // A table adjusted in two threads and written to a new file in two is written by the worker
+  // straight into the file, where the first part's output ends: measuring the first part's
+  // adjusted values as they are made tells where (parallel-write.ts, OutputInPlace).
+  const inPlace = format !== 'jsonl' && 'delimiter' in format && targets.table !== undefined && !gzipNamed(targets.table) && routeOutput(targets.table).kind === 'replace';
+  const result = await adjustOrExplain(table, options, settings, familyColumnNames, inPlace ? numberTextLength : undefined);
   const weightsName = table.weightsColumn === undefined ? undefined : columnName(table.shape, table.weightsColumn);
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');
 
-  const format = chooseFormat(options, table, targets.table === undefined && process.stdout.isTTY === true);
   // Decimal commas in, decimal commas out; but never in comma-separated output or JSON.
   const decimalComma = table.decimalComma && format !== 'jsonl' && !('delimiter' in format && format.delimiter === COMMA);
   const plan = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   if (format === 'jsonl') checkJsonKeys(table, plannedColumns(plan));
   const plot = (): Promise<string> => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
-  await writeOutputs(source, table, plan, format, summary, targets, plot);
+  await writeOutputs(source, table, plan, format, summary, targets, plot, firstPartCellBytes(plan, result.adjusted, result.firstPart));
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.
   for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);

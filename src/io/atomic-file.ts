@@ -86,6 +86,12 @@ export interface OutputFile {
   readonly stream: Writable;
   /** Whether the stream writes into the target itself, so that what is written cannot be taken back. */
   readonly direct: boolean;
+  /**
+   * The descriptor of the temporary file the stream writes from its start,
+   * for writing parts of it by position too (parallel-write.ts); undefined
+   * for the other routes.
+   */
+  readonly fd?: number;
   /** Flushes and closes the stream. */
   finish(): Promise<void>;
   /** Moves the finished file into place (after every output has finished). */
@@ -147,6 +153,7 @@ export function openOutput(path: string): OutputFile {
   return {
     stream,
     direct: false,
+    fd,
     finish: () => closed(stream, () => failure),
     install() {
       if (route.existing) chmodSync(temporary, route.existing.mode & 0o7777);

@@ -134,12 +134,6 @@ export class ByteSink {
     this.size = size;
   }
 
-  /** Appends a whole block as it is, without copying it (it must not change until written). */
-  pushBlock(block: Buffer): void {
-    if (this.size > 0) this.nextBlock(0);
-    this.full.push(block);
-  }
-
   /** Appends a delimiter byte and then a number as String() writes it (number-text.ts). */
   pushNumberCell(delimiter: number, value: number, decimalComma: boolean): void {
     if (this.size + 1 + LONGEST_NUMBER > this.block.length) this.nextBlock(1 + LONGEST_NUMBER);
@@ -202,6 +196,24 @@ export class ByteSink {
     this.block = Buffer.allocUnsafeSlow(Math.max(BLOCK_SIZE, room));
     this.blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
     this.size = 0;
+  }
+
+  /**
+   * Writes what is gathered, then `block` as it is; resolves once the
+   * stream is done with the block, which can then be filled again.
+   */
+  async writeReusable(block: Buffer): Promise<void> {
+    if (this.failure) throw this.failure;
+    await this.flush(true);
+    this.written += block.length;
+    await new Promise<void>((resolve, reject) => {
+      this.stream.write(block, (error?: Error | null) => (error ? reject(error) : resolve()));
+    });
+  }
+
+  /** Writes what is gathered; resolves once the stream has written everything it was given. */
+  settled(): Promise<void> {
+    return this.writeReusable(Buffer.alloc(0));
   }
 
   /** Writes what is gathered once a block is full (or always, with force). */

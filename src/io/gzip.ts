@@ -43,8 +43,13 @@ export function gunzipped(source: InputSource): InputSource {
 }
 
 /** The output compressed when its name ends in .gz; as it is otherwise. */
+/** Whether output to this path is compressed (compressedIfNamed). */
+export function gzipNamed(path: string | undefined): boolean {
+  return path !== undefined && /\.gz$/i.test(path);
+}
+
 export function compressedIfNamed(path: string | undefined, file: OutputFile): OutputFile {
-  return path !== undefined && /\.gz$/i.test(path) ? gzipped(file) : file;
+  return gzipNamed(path) ? gzipped(file) : file;
 }
 
 /** Output through gzip into a file; finishing it ends the compressed stream first. */

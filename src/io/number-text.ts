@@ -82,6 +82,13 @@ export function writeNumber(v: number, bytes: Uint8Array, at: number, decimalCom
   return at + text.length;
 }
 
+const lengthScratch = Buffer.alloc(LONGEST_NUMBER);
+
+/** The number of bytes writeNumber writes for v (the same with a decimal comma). */
+export function numberTextLength(v: number): number {
+  return writeNumber(v, lengthScratch, 0, false);
+}
+
 /** The fast path for 1e-6 < v < 1; -1 when it cannot decide. */
 function writeFraction(v: number, bytes: Uint8Array, at: number, point: number): number {
   word[0] = v;

@@ -19,14 +19,14 @@ import { checkedTestCount } from '../procedures/validate.js';
 import { type StepsJob, startPart } from './parts.js';
 
 /** What one part does at each stage, in whichever thread runs it. */
-export function stepsStage(job: StepsJob): PartRejections | null {
+export function stepsStage(job: StepsJob, measure?: (value: number) => number): PartRejections | null {
   const form = METHODS.find((method) => method.token === job.token)?.stepForm as StepForm;
   if (job.stage === 'running') {
     if (job.withRanks) ranksInWhole(job.own.sorted, job.other, job.rowOffset === 0, job.ranks);
     partRunning(form, job.own.sorted, job.ranks, job.m, job.ownRunning);
     return null;
   }
-  return adjustPart(form, job.own, job.ranks, job.ownRunning, job.otherRunning, job.m, job.alpha, job.target, job.rowOffset);
+  return adjustPart(form, job.own, job.ranks, job.ownRunning, job.otherRunning, job.m, job.alpha, job.target, job.rowOffset, measure);
 }
 
 /** The part in shared memory (the sort leaves it there, but for a table with -0 in it). */
@@ -39,13 +39,28 @@ function shared(part: Sorted): Sorted {
   return { order, sorted };
 }
 
+/** Each method's adjusted values in the first part: their measure summed, and how many are rejected. */
+export interface FirstPartMeasures {
+  readonly rows: number;
+  readonly byMethod: readonly { readonly measured: number; readonly rejected: number }[];
+}
+
 /**
  * p adjusted by each method, when the table is one family sorted in two
  * parts and every method is a step procedure; undefined otherwise (the
  * caller adjusts it in this thread). tests: the number of tests, when the
- * table holds only some.
+ * table holds only some. measureFirst, if given, is summed over each
+ * method's adjusted values in the first part (the writer's text of them:
+ * parallel-write.ts then knows where the second part's output starts).
  */
-export async function adjustInTwoThreads(p: Float64Array, parts: SortedParts, methods: readonly Method[], alpha: number, tests: number | undefined): Promise<WithinFamilies | undefined> {
+export async function adjustInTwoThreads(
+  p: Float64Array,
+  parts: SortedParts,
+  methods: readonly Method[],
+  alpha: number,
+  tests: number | undefined,
+  measureFirst?: (value: number) => number,
+): Promise<(WithinFamilies & { readonly firstPart?: FirstPartMeasures }) | undefined> {
   if (!methods.every((method) => method.stepForm !== undefined)) return undefined;
   const n = p.length;
   const split = parts.first.order.length;
@@ -61,6 +76,7 @@ export async function adjustInTwoThreads(p: Float64Array, parts: SortedParts, me
   const secondRanks = new Uint32Array(new SharedArrayBuffer(4 * (n - split)));
   const adjusted: Float64Array[] = [];
   const outcomes: FamilyOutcome[] = [];
+  const byMethod: { measured: number; rejected: number }[] = [];
   for (const [k, method] of methods.entries()) {
     const target = sharedFloat64(n);
     adjusted.push(target);
@@ -68,11 +84,12 @@ export async function adjustInTwoThreads(p: Float64Array, parts: SortedParts, me
     const firstJob: StepsJob = { ...common, stage: 'running', own: first, other: second.sorted, ranks: firstRanks, ownRunning: firstRunning, otherRunning: secondRunning, rowOffset: 0 };
     const secondJob: StepsJob = { ...common, stage: 'running', own: second, other: first.sorted, ranks: secondRanks, ownRunning: secondRunning, otherRunning: firstRunning, rowOffset: split };
     await inBoth(secondJob, () => stepsStage(firstJob));
-    const [a, b] = (await inBoth({ ...secondJob, stage: 'adjust' }, () => stepsStage({ ...firstJob, stage: 'adjust' }))) as [PartRejections, PartRejections];
+    const [a, b] = (await inBoth({ ...secondJob, stage: 'adjust' }, () => stepsStage({ ...firstJob, stage: 'adjust' }, measureFirst))) as [PartRejections, PartRejections];
+    byMethod.push({ measured: a.measured, rejected: a.rejected });
     const rejected = a.rejected + b.rejected;
     outcomes.push({ tested: n, missing: 0, m, rejected, threshold: rejected > 0 ? Math.max(a.threshold, b.threshold) : null, pi0: null });
   }
-  return { adjusted, outcomes: [outcomes] };
+  return { adjusted, outcomes: [outcomes], ...(measureFirst ? { firstPart: { rows: split, byMethod } } : {}) };
 }
 
 /**

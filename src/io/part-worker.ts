@@ -3,6 +3,7 @@
 // made (transferring its arrays) or its error.
 
 import { createWriteStream } from 'node:fs';
+import { finished } from 'node:stream/promises';
 import { parentPort } from 'node:worker_threads';
 import { DataError } from '../errors.js';
 import { ByteSink } from './byte-sink.js';
@@ -31,11 +32,19 @@ function partSource(job: WritePartJob | ReadPartJob, id: number): InputSource {
   };
 }
 
-/** Writes the part into the temporary file: the bytes written and the rows found. */
+/** Writes the part into its file from job.at on: the bytes written and the rows found. */
 async function writePart(job: WritePartJob, id: number): Promise<{ written: number; rows: number }> {
-  const stream = createWriteStream('', { fd: job.outFd, autoClose: false });
+  const stream = createWriteStream('', { fd: job.outFd, autoClose: false, start: job.at });
   const sink = new ByteSink(stream);
-  const rows = await writeTable(partSource(job, id), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
+  let rows: number;
+  try {
+    rows = await writeTable(partSource(job, id), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
+  } catch (error) {
+    // Nothing more is written once the failure is known (the main thread may write over this part).
+    stream.end();
+    await finished(stream).catch(() => {});
+    throw error;
+  }
   // Done only when every byte is in the file: a write that failed late (a full disk) fails the job.
   await new Promise<void>((resolve, reject) => {
     stream.end((error?: Error | null) => (error ? reject(error) : resolve()));

@@ -33,8 +33,9 @@ export interface WritePartJob extends PartInput {
   readonly shape: TableShape;
   readonly delimiter: number;
   readonly plan: ColumnsPlan;
-  /** The temporary file the part is written to. */
+  /** The file the part is written to, from byte `at` on. */
   readonly outFd: number;
+  readonly at: number;
 }
 
 export interface ReadPartJob extends PartInput {
@@ -90,6 +91,8 @@ export interface RunningPart<T> {
    * still at work: its files must then stay open, since it may still use them.
    */
   stop(): boolean;
+  /** Gives up the job and waits until the worker has left it (its files are then free), whatever its outcome. */
+  giveUp(): Promise<void>;
 }
 
 type Settle = (outcome: PartOutcome<unknown> | { readonly failed: Error }) => void;
@@ -151,6 +154,14 @@ export function startPart<T>(job: PartJob, transfer: readonly ArrayBuffer[] = []
       state.worker.postMessage({ cancel: id });
       if (state.waiting.size === 0) state.worker.unref();
       return true;
+    },
+    async giveUp() {
+      if (!state.waiting.has(id)) return;
+      state.worker.postMessage({ cancel: id });
+      await result.then(
+        () => {},
+        () => {},
+      );
     },
   };
 }

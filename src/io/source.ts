@@ -133,9 +133,8 @@ function moveToEnd(fd: number): void {
   });
 }
 
-/** Reads up to length bytes at a position of a descriptor, into a new buffer: the bytes read. */
-export function readAt(fd: number, length: number, position: number): Promise<Buffer> {
-  const buffer = Buffer.allocUnsafe(length);
+/** Reads up to length bytes at a position of a descriptor, into `buffer` (by default a new one): the bytes read. */
+export function readAt(fd: number, length: number, position: number, buffer: Buffer = Buffer.allocUnsafe(length)): Promise<Buffer> {
   return new Promise((resolve, reject) => {
     read(fd, buffer, 0, length, position, (error, bytesRead) => (error ? reject(error) : resolve(buffer.subarray(0, bytesRead))));
   });

@@ -202,6 +202,24 @@ function plainCells(appended: readonly OutputColumn[], delimiter: number): Plain
   return { kinds: Uint8Array.from(kinds), values, alphas: Float64Array.from(alphas), decimalComma, room: appended.length * (1 + LONGEST_NUMBER) };
 }
 
+/**
+ * The bytes writeTable writes for the table's first part, the input's
+ * first inputBytes bytes (its header and first rows), given the bytes of
+ * those rows' new cells, delimiters included; undefined unless the table is
+ * written the plain way, the one this can tell ahead: records copied whole,
+ * every new cell a number or a decision with no quotes. Each record is then
+ * its own bytes and its cells, and the header its own and the cells' names.
+ */
+export function firstPartOutputBytes(shape: TableShape, columns: readonly OutputColumn[], format: OutputFormat, inputBytes: number, cellBytes: number): number | undefined {
+  if ('headings' in format) return undefined;
+  const { replacing, appended } = splitColumns(columns);
+  if (format.delimiter !== shape.delimiter || replacing.size > 0 || plainCells(appended, format.delimiter) === undefined) return undefined;
+  const delimiter = String.fromCharCode(format.delimiter);
+  // As record() writes a name: plain (pushPlainCell), or quoted where it must be (which leaves other text as it is).
+  const names = shape.names ? appended.reduce((sum, column) => sum + 1 + Buffer.byteLength(quoted(column.name, delimiter)), 0) : 0;
+  return inputBytes + names + cellBytes;
+}
+
 export function checkRowCount(source: InputSource, rows: number, expected: number): void {
   if (rows !== expected) {
     throw new DataError(`${source.name}: changed while famwise was reading it (${expected} rows at first, ${rows} now)`);

@@ -96,12 +96,17 @@ export function partRunning(form: StepForm, sorted: Float64Array, ranks: Uint32A
 export interface PartRejections {
   readonly rejected: number;
   readonly threshold: number;
+  /** The sum of measure over the part's adjusted values (0 without a measure). */
+  readonly measured: number;
 }
 
 /**
  * The adjusted values of one part, written by row: target[rowOffset +
  * order[k]] for its k-th value. ownRunning and otherRunning are the two
- * parts' partRunning; ranks the part's ranksInWhole.
+ * parts' partRunning; ranks the part's ranksInWhole. measure, if given, is
+ * summed over the adjusted values (the writer measures their text with it);
+ * it is called once per run of equal values, which lie together in this
+ * order (the adjusted values of a step procedure rise with p).
  */
 export function adjustPart(
   form: StepForm,
@@ -113,11 +118,15 @@ export function adjustPart(
   alpha: number,
   target: Float64Array,
   rowOffset: number,
+  measure?: (value: number) => number,
 ): PartRejections {
   const { sorted, order } = part;
   const factor = form.factor(m);
   let rejected = 0;
   let threshold = -1;
+  let measured = 0;
+  let last = NaN;
+  let lastMeasure = 0;
   const n = sorted.length;
   const cap = form.cap;
   const up = form.direction === 'up';
@@ -136,6 +145,13 @@ export function adjustPart(
       rejected++;
       threshold = Math.max(threshold, sorted[k] as number);
     }
+    if (measure !== undefined) {
+      if (value !== last) {
+        last = value;
+        lastMeasure = measure(value);
+      }
+      measured += lastMeasure;
+    }
   }
-  return { rejected, threshold };
+  return { rejected, threshold, measured };
 }
