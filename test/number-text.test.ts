@@ -5,7 +5,7 @@
 // runs the same check on as many as wanted.
 import { describe, expect, it } from 'vitest';
 import { numberSamples, stepsAway } from '../src/io/number-samples.js';
-import { LONGEST_NUMBER, writeNumber } from '../src/io/number-text.js';
+import { LONGEST_NUMBER, numberTextLength, writeNumber } from '../src/io/number-text.js';
 import { seededRandom } from './helpers/random.js';
 
 const bytes = new Uint8Array(LONGEST_NUMBER + 8);
@@ -21,6 +21,17 @@ describe('writeNumber', () => {
       if (written(v) !== expected(v) && wrong.length < 5) wrong.push(`${expected(v)} written as ${written(v)}`);
     });
     expect(count).toBeGreaterThan(800_000);
+    expect(wrong).toEqual([]);
+  });
+
+  it('tells the length of what it writes without writing it (numberTextLength), on the same numbers', () => {
+    const wrong: string[] = [];
+    numberSamples(seededRandom(20261202), 200_000, (v) => {
+      if (numberTextLength(v) !== expected(v).length && wrong.length < 5) wrong.push(`${expected(v)}: ${numberTextLength(v)}`);
+    });
+    for (const v of [0.1, 0.5, 0.25, 1e-6, 1.5e-6, 0.999999999999999, 0.30000000000000004, 2 ** -20, 1, 0, -0, NaN, Infinity, 1e-300, 5e-324, 0.123456789012345]) {
+      if (numberTextLength(v) !== expected(v).length) wrong.push(`${expected(v)}: ${numberTextLength(v)}`);
+    }
     expect(wrong).toEqual([]);
   });
 

@@ -82,15 +82,29 @@ export function writeNumber(v: number, bytes: Uint8Array, at: number, decimalCom
   return at + text.length;
 }
 
-const lengthScratch = Buffer.alloc(LONGEST_NUMBER);
-
 /** The number of bytes writeNumber writes for v (the same with a decimal comma). */
 export function numberTextLength(v: number): number {
-  return writeNumber(v, lengthScratch, 0, false);
+  if (v > SMALLEST && v < 1) {
+    const length = fractionLength(v);
+    if (length >= 0) return length;
+  }
+  if (v === 1) return 1;
+  if (v !== v) return 0;
+  return String(v).length;
 }
 
-/** The fast path for 1e-6 < v < 1; -1 when it cannot decide. */
-function writeFraction(v: number, bytes: Uint8Array, at: number, point: number): number {
+/** What shortestFraction found: the shortest decimal of v is 0.[foundZeros zeros][the digits of foundBase + foundK]. */
+let foundBase = 0;
+let foundK = 0;
+let foundZeros = 0;
+
+/**
+ * For 1e-6 < v < 1: how many digits (15, 16 or 17) the shortest decimal of
+ * v takes before trailing zeros are trimmed (only one of 15 digits can
+ * have any), with what it is in foundBase, foundK and foundZeros; -1 when it
+ * cannot decide (a power of two).
+ */
+function shortestFraction(v: number): number {
   word[0] = v;
   const lowBits = wordBits[0] as number;
   const highBits = wordBits[1] as number;
@@ -119,18 +133,43 @@ function writeFraction(v: number, bytes: Uint8Array, at: number, point: number):
     const over = x - k;
     if (over > 0.5 || (over === 0.5 && (k & 1) !== 0)) k++;
     if (!(Math.abs(x - k) < half * power)) continue;
-    return writeDigits(base, k, digits, below - 1, bytes, at, point, digits === 15);
+    foundBase = base;
+    foundK = k;
+    foundZeros = below - 1;
+    return digits;
   }
   return -1;
 }
 
+/** The fast path for 1e-6 < v < 1; -1 when it cannot decide. */
+function writeFraction(v: number, bytes: Uint8Array, at: number, point: number): number {
+  const digits = shortestFraction(v);
+  if (digits < 0) return -1;
+  return writeDigits(foundBase, foundK, digits, foundZeros, bytes, at, point, digits === 15);
+}
+
+/** The bytes writeFraction writes for v, without writing them; -1 when it cannot decide. */
+function fractionLength(v: number): number {
+  const digits = shortestFraction(v);
+  if (digits < 0) return -1;
+  if (splitDigits(foundBase, foundK) >= (POWERS[digits - 8] as number)) return -1;
+  let length = digits;
+  if (digits === 15) {
+    // Below 10^15 < 2^53: exact, and its trailing zeros trimmed as writeDigits trims them.
+    for (let rest = foundBase + foundK; rest % 10 === 0 && length > 0; rest /= 10) length--;
+  }
+  return 2 + foundZeros + length;
+}
+
+/** The lower part splitDigits found. */
+let splitLower = 0;
+
 /**
- * Writes "0", the point, `zeros` zeros and the `digits` digits of base + k
- * (base an integer below 10^17, k a small integer), less its trailing zeros
- * when trim; -1 if base + k has more digits (it rounded up to a power of ten).
+ * base + k (base an integer below 10^17, k a small integer) in two parts
+ * that int32 arithmetic can take: returns upper, with base + k = upper
+ * 10^8 + splitLower.
  */
-function writeDigits(base: number, k: number, digits: number, zeros: number, bytes: Uint8Array, at: number, point: number, trim: boolean): number {
-  // base + k in two parts that int32 arithmetic can take: upper 10^8 + lower.
+function splitDigits(base: number, k: number): number {
   let upper = Math.floor(base / 1e8);
   let lower = base - upper * 1e8 + k;
   while (lower < 0) {
@@ -141,6 +180,18 @@ function writeDigits(base: number, k: number, digits: number, zeros: number, byt
     upper++;
     lower -= 1e8;
   }
+  splitLower = lower;
+  return upper;
+}
+
+/**
+ * Writes "0", the point, `zeros` zeros and the `digits` digits of base + k
+ * (base an integer below 10^17, k a small integer), less its trailing zeros
+ * when trim; -1 if base + k has more digits (it rounded up to a power of ten).
+ */
+function writeDigits(base: number, k: number, digits: number, zeros: number, bytes: Uint8Array, at: number, point: number, trim: boolean): number {
+  const upper = splitDigits(base, k);
+  const lower = splitLower;
   if (upper >= (POWERS[digits - 8] as number)) return -1;
   bytes[at++] = ZERO;
   bytes[at++] = point;
@@ -170,7 +221,7 @@ function writeDigits(base: number, k: number, digits: number, zeros: number, byt
   return last;
 }
 
-// Every branch of writeNumber run once at load, on numbers of each kind (the
+// Every branch of writeNumber (and numberTextLength) run once at load, on numbers of each kind (the
 // decades below 1, a power of two, 15 to 17 digits, rounding either way, 1,
 // NaN, numbers String() writes): the engine then has seen each of them when
 // it optimises the writer in the middle of a large table, and does not
@@ -180,6 +231,9 @@ function writeDigits(base: number, k: number, digits: number, zeros: number, byt
 for (let round = 0; round < 2; round++) {
   const bytes = Buffer.allocUnsafe(LONGEST_NUMBER);
   for (const v of [0.5, 0.1, 0.123, 0.62428642848007821, 0.1234567890123456, 0.047, 0.0031, 3.2e-4, 4.1e-5, 5.7e-6, 0.9999999999999999, 1, 2, NaN, 1e-7, 0]) {
-    for (let scale = 1; scale > 0.5; scale -= 0.0625) writeNumber(v * scale, bytes, 0, scale < 0.75);
+    for (let scale = 1; scale > 0.5; scale -= 0.0625) {
+      writeNumber(v * scale, bytes, 0, scale < 0.75);
+      numberTextLength(v * scale);
+    }
   }
 }
