@@ -156,9 +156,9 @@ describe('writing in two parts', () => {
   });
 
   it('gives the bytes of one pass from standard input spilled to a temporary file', () => {
-    // Past the 32 MB kept in memory, standard input goes to a file that can be read by position.
-    const input = Buffer.from(table('id,chrom,p\n', 1_400_000, (i) => `variant${i},${1 + (i % 22)},${p()}\n`));
-    expect(input.length).toBeGreaterThan(32 << 20);
+    // Past the 8 MB kept in memory, standard input goes to a file that can be read by position.
+    const input = Buffer.from(table('id,chrom,p\n', 400_000, (i) => `variant${i},${1 + (i % 22)},${p()}\n`));
+    expect(input.length).toBeGreaterThan(8 << 20);
     const out = sameBothWays(['adjust', '--family', 'chrom', '-q'], input);
     expect(out.length).toBeGreaterThan(input.length);
   });
@@ -321,11 +321,21 @@ describe('writing the second part in place', () => {
     const { ByteSink } = await import('../dist/io/byte-sink.js');
     const { openOutput } = await import('../dist/io/atomic-file.js');
     const { METHODS } = await import('../dist/methods.js');
-    const path = join(work, write('told.csv', '\ufeff' + table('id,p\r\n', 4000, (i) => `r${i},${value(i)}\r\n${i % 13 === 0 ? '\n' : ''}`)));
+    const messy = join(work, write('told.csv', '\ufeff' + table('id,p\r\n', 4000, (i) => `r${i},${value(i)}\r\n${i % 13 === 0 ? '\n' : ''}`)));
+    // Lines of 12 bytes, 4000 with the header: the middle of the input is the start of a record.
+    const even = join(work, write('told-even.csv', table('names,p_val\n', 3999, (i) => `r${String(i).padStart(4, '0')},${(0.001 + (i % 997) / 1000).toFixed(3)}\n`)));
+    expect(readFileSync(even).length).toBe(12 * 4000);
     const methods = METHODS.filter((method) => ['bh', 'holm', 'sidak'].includes(method.token));
     const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
     process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
     try {
+      for (const path of [messy, even]) await toldRight(path);
+    } finally {
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
+    }
+
+    async function toldRight(path: string): Promise<void> {
       const written = async (output: string, into: (fd: number | undefined, sink: InstanceType<typeof ByteSink>) => Promise<void>): Promise<Buffer> => {
         const file = openOutput(join(work, output));
         const sink = new ByteSink(file.stream);
@@ -334,25 +344,30 @@ describe('writing the second part in place', () => {
         file.install();
         return readFileSync(join(work, output));
       };
-      const table = await readTable(fileSource(path), { sortP: true });
+      const table = await readTable(fileSource(path), { sortP: true, pColumn: '2' });
       const split = table.split as NonNullable<typeof table.split>;
+      // Written in the parts it was read and adjusted in.
+      expect(table.sortedParts?.first.order.length).toBe(split.row);
       const result = await adjustInTwoThreads(table.p, table.sortedParts as NonNullable<typeof table.sortedParts>, methods, 0.05, undefined, numberTextLength);
       const plan = { alpha: 0.05, decimalComma: false, columns: methods.flatMap((method, k) => [{ name: `adj_${method.token}`, kind: 'number' as const, values: result?.adjusted[k] as Float64Array }, { name: `rej_${method.token}`, kind: 'decision' as const, values: result?.adjusted[k] as Float64Array }]) };
       const format = { delimiter: 0x2c };
       const cellBytes = firstPartCellBytes(plan, result?.adjusted ?? [], result?.firstPart) as number;
       // What one thread writes, and of that, the first part.
+      expect(result?.firstPart?.rows).toBe(split.row);
       const whole = await written('told-whole.out', (_fd, sink) => writeTable(fileSource(path), table.shape, plannedColumns(plan), format, sink, table.p.length).then(() => {}));
       const first = await written('told-first.out', (_fd, sink) => writeTable(rangeSource('told.csv', openSync(path, 'r'), 0, split.offset), table.shape, plannedColumns(plan), format, sink, split.row, {}).then(() => {}));
       expect(firstPartOutputBytes(table.shape, plannedColumns(plan), format, split.offset, cellBytes)).toBe(first.length);
       for (const off of [0, 1, -1, 5000, -first.length + 10]) {
         const out = await written(`told-${off}.out`, async (fd, sink) => {
-          await writeTableInParts(fileSource(path), table.shape, plan, format, sink, table.p.length, split, { fd: fd as number, firstCellBytes: cellBytes + off });
+          await writeTableInParts(fileSource(path), table.shape, plan, format, sink, table.p.length, split, { fd: fd as number, firstRows: split.row, firstCellBytes: cellBytes + off });
         });
         expect({ off, length: out.length, same: out.equals(whole) }).toEqual({ off, length: whole.length, same: true });
       }
-    } finally {
-      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
-      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
     }
+  });
+
+  it('gives the file of one thread when the middle of the input is the start of a record', () => {
+    const name = write('even.csv', table('names,p_val\n', 3999, (i) => `r${String(i).padStart(4, '0')},${(0.001 + ((i * 7) % 997) / 1000).toFixed(3)}\n`));
+    sameFileBothWays(['adjust', name, '--p-column', 'p_val', '--methods', 'bh,holm', '-q'], 'even');
   });
 });

@@ -155,4 +155,16 @@ describe('standard input past the in-memory limit', () => {
       expect(Buffer.concat(read).equals(table)).toBe(true);
     }
   });
+
+  it('tells once, with the first bytes, when the input goes to a file, so that a worker can start meanwhile; not when it stays in memory', async () => {
+    const pieces = Array.from({ length: 64 }, (_, k) => table.subarray((k * table.length) / 64, ((k + 1) * table.length) / 64));
+    const told: [Buffer, number][] = [];
+    await spilledSource(Readable.from(pieces), '<stdin>', 1 << 16, (head, size) => told.push([head, size]));
+    expect(told).toHaveLength(1);
+    expect(table.subarray(0, told[0]?.[0].length).equals(told[0]?.[0] as Buffer)).toBe(true);
+    expect(told[0]?.[1]).toBeGreaterThanOrEqual(1 << 16);
+    expect(told[0]?.[1]).toBeLessThan(table.length);
+    await spilledSource(Readable.from(pieces), '<stdin>', table.length + 1, (head, size) => told.push([head, size]));
+    expect(told).toHaveLength(1);
+  });
 });

@@ -37,7 +37,7 @@ import { bufferSource, type InputSource } from '../io/source.js';
 import { jsonLinesKeys, writeJsonLines } from '../io/write-jsonl.js';
 import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-table.js';
 import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
-import { firstPartCellBytes, writeTableInParts } from '../io/parallel-write.js';
+import { type OutputInPlace, firstPartCellBytes, writeTableInParts } from '../io/parallel-write.js';
 import { type FirstPartMeasures, adjustInTwoThreads } from '../io/parallel-adjust.js';
 import { numberTextLength } from '../io/number-text.js';
 import { inParts } from '../io/parts.js';
@@ -293,7 +293,7 @@ async function writeOutputs(
   summary: Summary,
   targets: { table?: string; summary?: string; plot?: string },
   plot: () => Promise<string>,
-  firstCellBytes: number | undefined,
+  firstPart: Omit<OutputInPlace, 'fd'> | undefined,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -306,7 +306,7 @@ async function writeOutputs(
   try {
     if (format === 'jsonl') await writeJsonLines(source, table.shape, plannedColumns(plan), sink, table.p.length);
     else if ('delimiter' in format && table.split && inParts(source)) {
-      const inPlace = tableFile.fd !== undefined && firstCellBytes !== undefined ? { fd: tableFile.fd, firstCellBytes } : undefined;
+      const inPlace = tableFile.fd !== undefined && firstPart !== undefined ? { fd: tableFile.fd, ...firstPart } : undefined;
       await writeTableInParts(source, table.shape, plan, format, sink, table.p.length, table.split, inPlace);
     }
     else await writeTable(source, table.shape, plannedColumns(plan), format, sink, table.p.length);
@@ -343,7 +343,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const targets = outputTargets(options, file);
   const fromValues = valuesSource(options, file);
   const readOptions = fromValues ? { delimiter: COMMA, header: true, pColumn: 'p', boundsAsValues: options.boundsAsValues } : tableReadOptions(options);
-  const opened = fromValues ?? (await openInput(file));
+  const opened = fromValues ?? (await openInput(file, true));
   const progressWanted = showsProgress({
     stderrIsTerminal: process.stderr.isTTY === true,
     tableToTerminal: (targets.table === undefined || routeOutput(targets.table).kind === 'stdout') && process.stdout.isTTY === true,
@@ -377,7 +377,9 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   const plan = outputColumns(table, options.methods, result.adjusted, options, decimalComma);
   if (format === 'jsonl') checkJsonKeys(table, plannedColumns(plan));
   const plot = (): Promise<string> => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
-  await writeOutputs(source, table, plan, format, summary, targets, plot, firstPartCellBytes(plan, result.adjusted, result.firstPart));
+  const firstCellBytes = firstPartCellBytes(plan, result.adjusted, result.firstPart);
+  const firstPart = result.firstPart && firstCellBytes !== undefined ? { firstRows: result.firstPart.rows, firstCellBytes } : undefined;
+  await writeOutputs(source, table, plan, format, summary, targets, plot, firstPart);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.
   for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);

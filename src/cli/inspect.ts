@@ -63,7 +63,7 @@ async function runInspect(file: string | undefined, options: InspectOptions): Pr
     import('../diagnostics/inspection-text.js'),
     import('../plots/histogram-svg.js'),
   ]);
-  const table = await readTable(await openInput(file), readOptions);
+  const table = await readTable(await openInput(file, true), readOptions);
   if (!options.quiet) for (const notice of table.notices) process.stderr.write(`famwise: note: ${notice.text}\n`);
 
   const familyColumnNames = table.familyColumns.map((column) => columnName(table.shape, column));

@@ -13,7 +13,9 @@ import { CAUTION } from './cautions.js';
 import { DELIMITERS } from '../io/dialect.js';
 import { isUnsignedNumberText } from '../io/p-value-text.js';
 import { routeOutput } from '../io/atomic-file.js';
-import { decompressedIfGzip } from '../io/gzip.js';
+import { decompressedIfGzip, isGzip } from '../io/gzip.js';
+import { startWorker } from '../io/parts.js';
+import { smallestInParts } from '../io/worker-thread.js';
 import { type InputSource, fileSource, stdinFileSource } from '../io/source.js';
 import { spilledSource } from '../io/spill.js';
 import { type StatisticKind, type Tail, STATISTIC_KINDS, TAILS_ALLOWED, DEGREES_NEEDED, defaultTail } from '../distributions/p-from-statistic.js';
@@ -195,12 +197,15 @@ export function parseOptions<T extends z.ZodType>(schema: T, raw: unknown): z.ou
 }
 
 /** The table's source: a file, or standard input for '-' or no file. */
-export async function openInput(file: string | undefined): Promise<InputSource> {
+export async function openInput(file: string | undefined, readInParts = false): Promise<InputSource> {
+  // A large table piped in goes to a file, which a command that reads in two parts (readInParts)
+  // then reads so: its worker is started while the rest comes in (unless it is gzip, read in one).
+  const onFile = readInParts ? (head: Buffer, size: number): void => (isGzip(head) || size < smallestInParts() ? undefined : startWorker()) : undefined;
   if (file === undefined || file === '-') {
     if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
     }
-    return decompressedIfGzip(stdinFileSource() ?? (await spilledSource(process.stdin, '<stdin>')));
+    return decompressedIfGzip(stdinFileSource() ?? (await spilledSource(process.stdin, '<stdin>', undefined, onFile)));
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);
@@ -211,7 +216,7 @@ export async function openInput(file: string | undefined): Promise<InputSource> 
     throw new UsageError(`${file}: is not readable (permission denied)`);
   }
   // A pipe (<(zcat ...), /dev/stdin, a named pipe) can be read only once: keep it (spill.ts).
-  return decompressedIfGzip(stat.isFile() ? fileSource(file) : await spilledSource(createReadStream(file), file));
+  return decompressedIfGzip(stat.isFile() ? fileSource(file) : await spilledSource(createReadStream(file), file, undefined, onFile));
 }
 
 /** Whether two paths name the same file (following links), whether or not it exists yet. */

@@ -61,6 +61,8 @@ async function copyPart(fd: number, size: number, sink: ByteSink): Promise<void>
  */
 export interface OutputInPlace {
   readonly fd: number;
+  /** The rows measured, and their cells' bytes. */
+  readonly firstRows: number;
   readonly firstCellBytes: number;
 }
 
@@ -119,7 +121,7 @@ export async function writeTableInParts(
   });
 
   // Where the second part's output starts, when it can be told before the first is written.
-  const at = inPlace && firstPartOutputBytes(shape, plannedColumns(plan), format, split.offset, inPlace.firstCellBytes);
+  const at = inPlace && inPlace.firstRows === split.row ? firstPartOutputBytes(shape, plannedColumns(plan), format, split.offset, inPlace.firstCellBytes) : undefined;
   if (inPlace && at !== undefined) {
     const second = startPart<{ written: number; rows: number }>(job(inPlace.fd, at), movableBuffers(partPlan));
     let first: number;

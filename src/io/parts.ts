@@ -132,6 +132,11 @@ export function warmUp(source: InputSource): void {
   if (inParts(source)) sharedWorker();
 }
 
+/** Starts the worker now, for a source not yet known that will be large (a pipe going to a file, spill.ts). */
+export function startWorker(): void {
+  if (workerFile() !== undefined) sharedWorker();
+}
+
 /** Gives a job to the worker; the buffers in `transfer` move to it. */
 export function startPart<T>(job: PartJob, transfer: readonly ArrayBuffer[] = []): RunningPart<T> {
   const state = sharedWorker();

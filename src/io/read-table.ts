@@ -642,7 +642,8 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     } catch {
       return false;
     }
-    split ??= { offset: at, row: p.length, line };
+    // Written in the same two parts (the record noted at the middle may come a line or so before).
+    split = { offset: at, row: p.length, line };
     addPart(part);
     if (ownSorted && part.sorted) sortedParts = { first: ownSorted, second: part.sorted };
     return true;

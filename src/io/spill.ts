@@ -16,8 +16,12 @@ import { join } from 'node:path';
 import type { Readable } from 'node:stream';
 import { type InputSource, rangeSource } from './source.js';
 
-/** Inputs up to this size are kept in memory (typing at the terminal, short pipes). */
-const IN_MEMORY = 32 << 20;
+/**
+ * Inputs up to this size are kept in memory (typing at the terminal, short
+ * pipes); larger ones go to a file, which two threads can read in parts
+ * (parts.ts: from 8 MB on).
+ */
+const IN_MEMORY = 8 << 20;
 /** Chunks are gathered into writes of about this size. */
 const WRITE_SIZE = 4 << 20;
 
@@ -57,9 +61,11 @@ async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<vo
 
 /**
  * Reads a stream to its end, into memory or (past `inMemory` bytes) a
- * temporary file, and returns it as a source.
+ * temporary file, and returns it as a source. onFile is told when the input
+ * turns out to go to a file, with its first bytes and its size so far, while
+ * the rest is read.
  */
-export async function spilledSource(stream: Readable, name: string, inMemory = IN_MEMORY): Promise<InputSource> {
+export async function spilledSource(stream: Readable, name: string, inMemory = IN_MEMORY, onFile?: (head: Buffer, size: number) => void): Promise<InputSource> {
   const kept: Buffer[] = [];
   let keptSize = 0;
   let size = 0;
@@ -70,6 +76,7 @@ export async function spilledSource(stream: Readable, name: string, inMemory = I
     keptSize += chunk.length;
     size += chunk.length;
     if (keptSize < (file ? WRITE_SIZE : inMemory)) continue;
+    if (!file) onFile?.(kept[0] as Buffer, size);
     file ??= await temporaryFile();
     await writeAll(file, kept.splice(0));
     keptSize = 0;
