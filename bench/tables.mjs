@@ -17,14 +17,31 @@ import { cpus, loadavg, totalmem } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 
-const { values: args } = parseArgs({
-  options: {
-    rows: { type: 'string', default: '1000000,10000000' },
-    runs: { type: 'string', default: '3' },
-    reference: { type: 'boolean', default: false },
-    gzip: { type: 'boolean', default: false },
-  },
-});
+const USAGE = 'usage: node bench/tables.mjs [--rows 1000000,10000000] [--runs 3] [--reference] [--gzip]';
+let args;
+try {
+  ({ values: args } = parseArgs({
+    options: {
+      rows: { type: 'string', default: '1000000,10000000' },
+      runs: { type: 'string', default: '3' },
+      reference: { type: 'boolean', default: false },
+      gzip: { type: 'boolean', default: false },
+      help: { type: 'boolean', short: 'h', default: false },
+    },
+  }));
+} catch (error) {
+  console.error(`bench/tables.mjs: ${error.message}\n${USAGE}`);
+  process.exit(2);
+}
+if (args.help) {
+  console.log(USAGE);
+  process.exit(0);
+}
+const badNumber = [args.runs, ...args.rows.split(',')].find((text) => !/^[1-9]\d*$/.test(text.trim()));
+if (badNumber !== undefined) {
+  console.error(`bench/tables.mjs: ${JSON.stringify(badNumber)} is not a whole number above 0\n${USAGE}`);
+  process.exit(2);
+}
 const root = fileURLToPath(new URL('..', import.meta.url));
 const shared = fileURLToPath(new URL('../../shared/bench/', import.meta.url));
 const cli = `${root}dist/cli/famwise.mjs`;

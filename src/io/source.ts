@@ -4,6 +4,7 @@
 // other standard input and pipes are first read to their end (spill.ts),
 // gzip is decompressed on every pass (gzip.ts).
 
+import { spawn } from 'node:child_process';
 import { type Stats, closeSync, createReadStream, fstatSync, openSync, read, readFileSync, readSync, statSync } from 'node:fs';
 
 export interface InputSource {
@@ -108,22 +109,41 @@ function sameFile(stat: Stats, fd: number): boolean {
 }
 
 /**
- * Reads a descriptor in order to its end and drops the bytes: reading by
- * position leaves its offset where it was, and a shell that shares it
+ * Moves a descriptor's offset to the end of its file: reading by position
+ * leaves it where it was, and a shell that shares it
  * ({ famwise ...; next; } < file) expects it at the end, as after any
- * command that reads its input through. Done in the background; whatever
- * is left when the process exits (an error can end it early) is read then.
+ * command that reads its input through. Node has no lseek, so `tail -c 1`
+ * is given the descriptor: it seeks to the last byte and reads it, and the
+ * offset, shared with it, is then at the end, with no bytes copied. Where
+ * tail cannot be run, the rest is read and dropped, in the background
+ * (reading 440 MB that way cost the two working threads about 0.4 s at 10M
+ * rows). Whatever is left when the process exits is read then.
  */
 function moveToEnd(fd: number): void {
-  const scratch = Buffer.allocUnsafe(READ_SIZE);
   let done = false;
-  const step = (): void => {
-    read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
-      if (error || bytesRead === 0) done = true;
-      else step();
-    });
+  let reading = false;
+  const scratch = Buffer.allocUnsafe(READ_SIZE);
+  const readToEnd = (): void => {
+    if (reading || done) return;
+    reading = true;
+    const step = (): void => {
+      read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
+        if (error || bytesRead === 0) done = true;
+        else step();
+      });
+    };
+    step();
   };
-  step();
+  try {
+    const tail = spawn('tail', ['-c', '1'], { stdio: [fd, 'ignore', 'ignore'] });
+    tail.on('error', readToEnd);
+    tail.on('exit', (code) => {
+      if (code === 0) done = true;
+      else readToEnd();
+    });
+  } catch {
+    readToEnd();
+  }
   process.on('exit', () => {
     try {
       while (!done) done = readSync(fd, scratch, 0, scratch.length, null) === 0;
