@@ -191,6 +191,10 @@ describe('writing in two parts', () => {
     // Also when famwise stops early with an error, before a large input could be read through in the background.
     const large = write('large.csv', `id,p\n${'r,0.5\n'.repeat(6_000_000)}`);
     expect(shell(`{ "${process.execPath}" "${CLI}" adjust -q --p-column nosuch 2> /dev/null; wc -c; } < ${large}`).trim()).toBe('0');
+    // Where tail (which moves the offset without reading) cannot be run, by reading it through.
+    const noTail = `PATH=${join(work, 'no-such-folder')}`;
+    expect(shell(`{ ${noTail} "${process.execPath}" "${CLI}" adjust -q > /dev/null; wc -c; } < ${name}`).trim()).toBe('0');
+    expect(shell(`{ ${noTail} "${process.execPath}" "${CLI}" adjust -q --p-column nosuch 2> /dev/null; wc -c; } < ${large}`).trim()).toBe('0');
   });
 
   it('reads standard input redirected from a file as it was at the start, when the output is appended to that file', () => {
