@@ -293,7 +293,7 @@ async function writeOutputs(
   summary: Summary,
   targets: { table?: string; summary?: string; plot?: string },
   plot: () => Promise<string>,
-  firstPart: Omit<OutputInPlace, 'fd'> | undefined,
+  measured: Omit<OutputInPlace, 'fd'> | undefined,
 ): Promise<void> {
   const files: OutputFile[] = [];
   const abandon = (error: unknown): never => {
@@ -306,7 +306,7 @@ async function writeOutputs(
   try {
     if (format === 'jsonl') await writeJsonLines(source, table.shape, plannedColumns(plan), sink, table.p.length);
     else if ('delimiter' in format && table.split && inParts(source)) {
-      const inPlace = tableFile.fd !== undefined && firstPart !== undefined ? { fd: tableFile.fd, ...firstPart } : undefined;
+      const inPlace = tableFile.fd !== undefined && measured !== undefined ? { fd: tableFile.fd, ...measured } : undefined;
       await writeTableInParts(source, table.shape, plan, format, sink, table.p.length, table.split, inPlace);
     }
     else await writeTable(source, table.shape, plannedColumns(plan), format, sink, table.p.length);
@@ -366,7 +366,17 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   // A table adjusted in two threads and written to a new file in two is written by the worker
   // straight into the file, where the first part's output ends: measuring the first part's
   // adjusted values as they are made tells where (parallel-write.ts, OutputInPlace).
-  const inPlace = format !== 'jsonl' && 'delimiter' in format && targets.table !== undefined && !gzipNamed(targets.table) && routeOutput(targets.table).kind === 'replace';
+  // Only the plain way of writing can be told ahead: records copied whole (the same delimiter, no
+  // --replace), new cells of adjusted values only (no p_raw).
+  const inPlace =
+    format !== 'jsonl' &&
+    'delimiter' in format &&
+    format.delimiter === table.shape.delimiter &&
+    !options.replace &&
+    !table.pComputed &&
+    targets.table !== undefined &&
+    !gzipNamed(targets.table) &&
+    routeOutput(targets.table).kind === 'replace';
   const result = await adjustOrExplain(table, options, settings, familyColumnNames, inPlace ? numberTextLength : undefined);
   const weightsName = table.weightsColumn === undefined ? undefined : columnName(table.shape, table.weightsColumn);
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
@@ -378,8 +388,8 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
   if (format === 'jsonl') checkJsonKeys(table, plannedColumns(plan));
   const plot = (): Promise<string> => discoveriesPlot(table, result, options.methods, options.alpha, familyColumnNames, note);
   const firstCellBytes = firstPartCellBytes(plan, result.adjusted, result.firstPart);
-  const firstPart = result.firstPart && firstCellBytes !== undefined ? { firstRows: result.firstPart.rows, firstCellBytes } : undefined;
-  await writeOutputs(source, table, plan, format, summary, targets, plot, firstPart);
+  const measured = result.firstPart && firstCellBytes !== undefined ? { firstRows: result.firstPart.rows, firstCellBytes } : undefined;
+  await writeOutputs(source, table, plan, format, summary, targets, plot, measured);
   if (!options.quiet) process.stderr.write(summaryText(summary));
   // A fallback changes what the q-values mean, so it is shown even with --quiet.
   for (const warning of pi0Warnings(summary)) process.stderr.write(`famwise: warning: ${warning}\n`);

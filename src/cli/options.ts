@@ -200,7 +200,9 @@ export function parseOptions<T extends z.ZodType>(schema: T, raw: unknown): z.ou
 export async function openInput(file: string | undefined, readInParts = false): Promise<InputSource> {
   // A large table piped in goes to a file, which a command that reads in two parts (readInParts)
   // then reads so: its worker is started while the rest comes in (unless it is gzip, read in one).
-  const onFile = readInParts ? (head: Buffer, size: number): void => (isGzip(head) || size < smallestInParts() ? undefined : startWorker()) : undefined;
+  const onFile = (head: Buffer, size: number): void => {
+    if (readInParts && !isGzip(head) && size >= smallestInParts()) startWorker();
+  };
   if (file === undefined || file === '-') {
     if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');

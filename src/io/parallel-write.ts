@@ -1,14 +1,19 @@
 // The second pass in two threads (io/parts.ts). Writing is most of a large
 // table's time (copying every record, formatting every new number), and it
-// splits cleanly at the record near the middle that the first pass noted
+// splits cleanly at the record where the first pass split the reading
 // (read-table.ts, SplitPoint). This thread writes the part before it to the
-// output; a worker writes the part from it on into a temporary file at the
-// same time, which is then copied after the first part. Both run the one
-// writer (write-table.ts), so the bytes are those of a single pass;
+// output; a worker writes the part from it on at the same time: straight
+// into the output file, where the first part's output will end, when that
+// can be told ahead (OutputInPlace); otherwise into a temporary file, which
+// is then copied after the first part. Both run the one writer
+// (write-table.ts), so the bytes are those of a single pass;
 // test/parallel.e2e.test.ts compares them. Should the worker fail for a
 // reason other than the input (it could not start, say), this thread writes
 // its part instead.
 
+import { createWriteStream, ftruncateSync } from 'node:fs';
+import type { FileHandle } from 'node:fs/promises';
+import { finished } from 'node:stream/promises';
 import { DataError } from '../errors.js';
 import { ByteSink } from './byte-sink.js';
 import { type ColumnsPlan, movableBuffers, planFrom, plannedColumns } from './column-plan.js';
@@ -16,9 +21,6 @@ import type { FirstPartMeasures } from './parallel-adjust.js';
 import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
 import { type InputSource, contentEnd, rangeSource, readAt } from './source.js';
-import { createWriteStream, ftruncateSync } from 'node:fs';
-import { finished } from 'node:stream/promises';
-import type { FileHandle } from 'node:fs/promises';
 import { releaseMemory } from './release-memory.js';
 import { temporaryFile } from './spill.js';
 import { checkRowCount, firstPartOutputBytes, writeTable } from './write-table.js';
