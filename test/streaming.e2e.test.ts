@@ -156,6 +156,27 @@ describe('standard input past the in-memory limit', () => {
     }
   });
 
+  it('keeps up to 32 MB in memory when no temporary file can be made, and says what to do past that', async () => {
+    const before = process.env.TMPDIR;
+    process.env.TMPDIR = join(tmpdir(), `famwise-no-such-folder-${process.pid}`);
+    try {
+      const pieces = Array.from({ length: 64 }, (_, k) => table.subarray((k * table.length) / 64, ((k + 1) * table.length) / 64));
+      expect(table.length).toBeGreaterThan(1 << 16);
+      const told: number[] = [];
+      const source = await spilledSource(Readable.from(pieces), '<stdin>', 1 << 16, (_head, size) => told.push(size));
+      expect(told).toEqual([]);
+      expect(source.descriptor).toBeUndefined();
+      const read: Buffer[] = [];
+      for await (const chunk of source.chunks()) read.push(chunk);
+      expect(Buffer.concat(read).equals(table)).toBe(true);
+      const large = Array.from({ length: 33 }, () => Buffer.alloc(1 << 20, 0x61));
+      await expect(spilledSource(Readable.from(large), '<stdin>', 1 << 16)).rejects.toThrow(/^<stdin>: more than 32 MB came in, and there is no temporary file to keep them in \(ENOENT.*\); set TMPDIR to a folder with room for the whole input$/);
+    } finally {
+      if (before === undefined) delete process.env.TMPDIR;
+      else process.env.TMPDIR = before;
+    }
+  });
+
   it('tells once, with the first bytes, when the input goes to a file, so that a worker can start meanwhile; not when it stays in memory', async () => {
     const pieces = Array.from({ length: 64 }, (_, k) => table.subarray((k * table.length) / 64, ((k + 1) * table.length) / 64));
     const told: [Buffer, number][] = [];

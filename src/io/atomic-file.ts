@@ -148,13 +148,27 @@ export function openOutput(path: string): OutputFile {
   const temporary = join(dirname(route.path), `.famwise-${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
   const fd = openForWriting(temporary, 'wx', path);
   unfinished.add(temporary);
-  const stream = createWriteStream('', { fd });
+  // Not closed by the stream itself when a write fails (autoClose): a worker thread may be writing
+  // into the file by position (parallel-write.ts), and a descriptor closed under it could be handed
+  // to another file. It is closed when the output is finished or given up (destroy waits for a
+  // write under way), and whoever gives it up waits for the worker first.
+  const stream = createWriteStream('', { fd, autoClose: false });
   stream.on('error', remember);
   return {
     stream,
     direct: false,
     fd,
-    finish: () => closed(stream, () => failure),
+    async finish() {
+      try {
+        await closed(stream, () => failure);
+      } finally {
+        await new Promise<void>((resolve) => {
+          if (stream.closed) return resolve();
+          stream.once('close', () => resolve());
+          stream.destroy();
+        });
+      }
+    },
     install() {
       if (route.existing) chmodSync(temporary, route.existing.mode & 0o7777);
       renameSync(temporary, route.path);

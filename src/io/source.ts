@@ -4,7 +4,7 @@
 // other standard input and pipes are first read to their end (spill.ts),
 // gzip is decompressed on every pass (gzip.ts).
 
-import { spawn } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { type Stats, closeSync, createReadStream, fstatSync, openSync, read, readFileSync, readSync, statSync } from 'node:fs';
 
 export interface InputSource {
@@ -113,37 +113,28 @@ function sameFile(stat: Stats, fd: number): boolean {
  * leaves it where it was, and a shell that shares it
  * ({ famwise ...; next; } < file) expects it at the end, as after any
  * command that reads its input through. Node has no lseek, so `tail -c 1`
- * is given the descriptor: it seeks to the last byte and reads it, and the
- * offset, shared with it, is then at the end, with no bytes copied. Where
- * tail cannot be run, the rest is read and dropped, in the background
+ * is given the descriptor and waited for (a few ms): it seeks to the last
+ * byte and reads it, and the offset, shared with it, is then at the end,
+ * with no bytes copied, before famwise reads anything or could exit. Where
+ * tail cannot be run, the rest is read and dropped in the background
  * (reading 440 MB that way cost the two working threads about 0.4 s at 10M
- * rows). Whatever is left when the process exits is read then.
+ * rows), and whatever is left when the process exits is read then.
  */
 function moveToEnd(fd: number): void {
-  let done = false;
-  let reading = false;
-  const scratch = Buffer.allocUnsafe(READ_SIZE);
-  const readToEnd = (): void => {
-    if (reading || done) return;
-    reading = true;
-    const step = (): void => {
-      read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
-        if (error || bytesRead === 0) done = true;
-        else step();
-      });
-    };
-    step();
-  };
   try {
-    const tail = spawn('tail', ['-c', '1'], { stdio: [fd, 'ignore', 'ignore'] });
-    tail.on('error', readToEnd);
-    tail.on('exit', (code) => {
-      if (code === 0) done = true;
-      else readToEnd();
-    });
+    if (spawnSync('tail', ['-c', '1'], { stdio: [fd, 'ignore', 'ignore'], timeout: 10_000 }).status === 0) return;
   } catch {
-    readToEnd();
+    // No tail to be had: read through below.
   }
+  const scratch = Buffer.allocUnsafe(READ_SIZE);
+  let done = false;
+  const step = (): void => {
+    read(fd, scratch, 0, scratch.length, null, (error, bytesRead) => {
+      if (error || bytesRead === 0) done = true;
+      else step();
+    });
+  };
+  step();
   process.on('exit', () => {
     try {
       while (!done) done = readSync(fd, scratch, 0, scratch.length, null) === 0;

@@ -22,6 +22,8 @@ import { type InputSource, rangeSource } from './source.js';
  * (parts.ts: from 8 MB on).
  */
 const IN_MEMORY = 8 << 20;
+/** Where no temporary file can be made (a TMPDIR missing or full), inputs up to this size are kept in memory all the same. */
+const IN_MEMORY_WITHOUT_FILE = 32 << 20;
 /** Chunks are gathered into writes of about this size. */
 const WRITE_SIZE = 4 << 20;
 
@@ -70,14 +72,29 @@ export async function spilledSource(stream: Readable, name: string, inMemory = I
   let keptSize = 0;
   let size = 0;
   let file: FileHandle | undefined;
+  let noFile: Error | undefined;
   for await (const piece of stream) {
     const chunk = typeof piece === 'string' ? Buffer.from(piece) : (piece as Buffer);
     kept.push(chunk);
     keptSize += chunk.length;
     size += chunk.length;
+    if (noFile) {
+      if (size <= IN_MEMORY_WITHOUT_FILE) continue;
+      // A system error, shown as one (errors.ts errorText), with the code of the one met.
+      throw Object.assign(new Error(`${name}: more than ${IN_MEMORY_WITHOUT_FILE >> 20} MB came in, and there is no temporary file to keep them in (${noFile.message}); set TMPDIR to a folder with room for the whole input`), {
+        code: (noFile as NodeJS.ErrnoException).code ?? 'EIO',
+      });
+    }
     if (keptSize < (file ? WRITE_SIZE : inMemory)) continue;
-    if (!file) onFile?.(kept[0] as Buffer, size);
-    file ??= await temporaryFile();
+    if (!file) {
+      try {
+        file = await temporaryFile();
+      } catch (error) {
+        noFile = error as Error;
+        continue;
+      }
+      onFile?.(kept[0] as Buffer, size);
+    }
     await writeAll(file, kept.splice(0));
     keptSize = 0;
   }
