@@ -40,7 +40,8 @@ async function writePart(job: WritePartJob, id: number): Promise<{ written: numb
   try {
     rows = await writeTable(partSource(job, id), job.shape, plannedColumns(job.plan), { delimiter: job.delimiter }, sink, job.rows, { firstLine: job.line });
   } catch (error) {
-    // Nothing more is written once the failure is known (the main thread may write over this part).
+    // The writes already queued finish before the failure is reported, and none follow: the main
+    // thread may then write over this part.
     stream.end();
     await finished(stream).catch(() => {});
     throw error;
