@@ -321,7 +321,6 @@ describe('writing the second part in place', () => {
     const { firstPartCellBytes, writeTableInParts } = await import('../dist/io/parallel-write.js');
     const { firstPartOutputBytes, writeTable } = await import('../dist/io/write-table.js');
     const { plannedColumns } = await import('../dist/io/column-plan.js');
-    const { numberTextLength } = await import('../dist/io/number-text.js');
     const { ByteSink } = await import('../dist/io/byte-sink.js');
     const { openOutput } = await import('../dist/io/atomic-file.js');
     const { METHODS } = await import('../dist/methods.js');
@@ -352,7 +351,7 @@ describe('writing the second part in place', () => {
       const split = table.split as NonNullable<typeof table.split>;
       // Written in the parts it was read and adjusted in.
       expect(table.sortedParts?.first.order.length).toBe(split.row);
-      const result = await adjustInTwoThreads(table.p, table.sortedParts as NonNullable<typeof table.sortedParts>, methods, 0.05, undefined, numberTextLength);
+      const result = await adjustInTwoThreads(table.p, table.sortedParts as NonNullable<typeof table.sortedParts>, methods, 0.05, undefined, true);
       const plan = { alpha: 0.05, decimalComma: false, columns: methods.flatMap((method, k) => [{ name: `adj_${method.token}`, kind: 'number' as const, values: result?.adjusted[k] as Float64Array }, { name: `rej_${method.token}`, kind: 'decision' as const, values: result?.adjusted[k] as Float64Array }]) };
       const format = { delimiter: 0x2c };
       const cellBytes = firstPartCellBytes(plan, result?.adjusted ?? [], result?.firstPart) as number;

@@ -3,7 +3,7 @@
 // procedure gives on the whole family.
 import { describe, expect, it } from 'vitest';
 import { METHODS } from '../src/methods.js';
-import { type StepForm, adjustPart, partRunning, ranksInWhole } from '../src/procedures/step-parts.js';
+import { type StepForm, adjustPart, partMeasure, partRunning, ranksInWhole } from '../src/procedures/step-parts.js';
 import { sortAscending } from '../src/procedures/sorting.js';
 import { awkwardPValues, seededRandom, withTiesAcross } from './helpers/random.js';
 
@@ -50,7 +50,7 @@ describe('step procedures in two parts', () => {
   }
 
   for (const method of stepMethods) {
-    it(`${method.token}: measures each part's adjusted values, once per run of equal values`, () => {
+    it(`${method.token}: measures any stretch of a part's adjusted values, once per run of equal values`, () => {
       const random = seededRandom(57 + method.token.length);
       const p = withTiesAcross(awkwardPValues(random, 2000));
       const form = method.stepForm as StepForm;
@@ -61,16 +61,20 @@ describe('step procedures in two parts', () => {
       const firstRunning = partRunning(form, first.sorted, firstRanks, p.length);
       const secondRunning = partRunning(form, second.sorted, ranksInWhole(second.sorted, first.sorted, false), p.length);
       const adjusted = new Float64Array(p.length).fill(NaN);
+      adjustPart(form, first, firstRanks, firstRunning, secondRunning, p.length, 0.05, adjusted, 0);
+      // The first part's adjusted values in its sorted order, as they were written by row.
+      const byRank = Array.from(first.order, (row) => adjusted[row] as number);
       let calls = 0;
       const measure = (value: number): number => {
         calls++;
         return String(value).length;
       };
-      const part = adjustPart(form, first, firstRanks, firstRunning, secondRunning, p.length, 0.05, adjusted, 0, measure);
-      const values = Array.from(adjusted.subarray(0, split));
-      expect(part.measured).toBe(values.reduce((sum, value) => sum + String(value).length, 0));
-      expect(calls).toBe(new Set(values).size);
-      expect(adjustPart(form, first, firstRanks, firstRunning, secondRunning, p.length, 0.05, adjusted, 0).measured).toBe(0);
+      const textLengths = (values: number[]): number => values.reduce((sum, value) => sum + String(value).length, 0);
+      for (const [from, to] of [[0, split], [0, 0], [0, 1], [1, 300], [300, split - 1], [split - 1, split]] as const) {
+        calls = 0;
+        expect(partMeasure(form, firstRanks, firstRunning, secondRunning, p.length, from, to, measure)).toBe(textLengths(byRank.slice(from, to)));
+        expect(calls).toBe(new Set(byRank.slice(from, to)).size);
+      }
     });
   }
 
@@ -99,5 +103,50 @@ describe('adjustInTwoThreads', () => {
     expect(await adjustInTwoThreads(p, parts, METHODS, 0.05, undefined)).toBeUndefined();
     expect(await adjustInTwoThreads(p.subarray(1), parts, stepMethods, 0.05, undefined)).toBeUndefined();
     await expect(adjustInTwoThreads(p, parts, stepMethods, 0.05, 4999)).rejects.toThrow('more than the 4999 tests given');
+  });
+
+  it("measures the text of the first part's adjusted values, in stretches claimed by either thread, and counts its rejections", async () => {
+    const { MEASURE_CHUNK, adjustInTwoThreads } = await import('../src/io/parallel-adjust.js');
+    const p = withTiesAcross(awkwardPValues(seededRandom(43), 3 * MEASURE_CHUNK));
+    // A first part of two stretches and a bit.
+    const split = 2 * MEASURE_CHUNK + 123;
+    const parts = { first: sortAscending(p.subarray(0, split)), second: sortAscending(p.subarray(split)) };
+    const result = await adjustInTwoThreads(p, parts, stepMethods, 0.05, undefined, true);
+    expect(result?.firstPart?.rows).toBe(split);
+    expect(result?.firstPart?.byMethod).toEqual(
+      (result?.adjusted ?? []).map((values) => {
+        const first = Array.from(values.subarray(0, split));
+        return { measured: first.reduce((sum, value) => sum + String(value).length, 0), rejected: first.filter((value) => value <= 0.05).length };
+      }),
+    );
+    expect((await adjustInTwoThreads(p, parts, stepMethods, 0.05, undefined))?.firstPart).toBeUndefined();
+  });
+
+  it("measures the first part's values the same from either part's job, whichever claims the stretches first", async () => {
+    const { MEASURE_CHUNK, stepsStage } = await import('../src/io/parallel-adjust.js');
+    const p = withTiesAcross(awkwardPValues(seededRandom(47), 2 * MEASURE_CHUNK));
+    const split = MEASURE_CHUNK + 500;
+    const first = sortAscending(p.subarray(0, split));
+    const second = sortAscending(p.subarray(split));
+    for (const method of stepMethods) {
+      const firstRanks = new Uint32Array(split);
+      const secondRanks = new Uint32Array(p.length - split);
+      const firstRunning = new Float64Array(split + 1);
+      const secondRunning = new Float64Array(p.length - split + 1);
+      const target = new Float64Array(p.length);
+      const common = { kind: 'steps' as const, withRanks: true, token: method.token, m: p.length, alpha: 0.05, target };
+      const firstJob = { ...common, own: first, other: second.sorted, ranks: firstRanks, ownRunning: firstRunning, otherRunning: secondRunning, rowOffset: 0 };
+      const secondJob = { ...common, own: second, other: first.sorted, ranks: secondRanks, ownRunning: secondRunning, otherRunning: firstRunning, rowOffset: split };
+      stepsStage({ ...firstJob, stage: 'running' });
+      stepsStage({ ...secondJob, stage: 'running' });
+      const whole = method.adjust(p);
+      const expected = Array.from(first.order, (row) => String(whole[row]).length).reduce((sum, length) => sum + length, 0);
+      for (const order of [[firstJob, secondJob], [secondJob, firstJob]]) {
+        const measureFirst = { next: new Int32Array(1), to: split, firstRanks };
+        const [done, left] = order.map((job) => stepsStage({ ...job, stage: 'adjust', measureFirst }));
+        // The job that ran first claimed every stretch.
+        expect({ method: method.token, measured: [done?.measured, left?.measured] }).toEqual({ method: method.token, measured: [expected, 0] });
+      }
+    }
   });
 });

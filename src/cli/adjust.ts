@@ -39,7 +39,6 @@ import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-ta
 import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
 import { type OutputInPlace, firstPartCellBytes, writeTableInParts } from '../io/parallel-write.js';
 import { type FirstPartMeasures, adjustInTwoThreads } from '../io/parallel-adjust.js';
-import { numberTextLength } from '../io/number-text.js';
 import { inParts } from '../io/parts.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
@@ -263,7 +262,7 @@ async function adjustOrExplain(
   options: AdjustOptions,
   settings: MethodSettings,
   familyColumnNames: readonly string[],
-  measureFirst?: (value: number) => number,
+  measureFirst = false,
 ): Promise<WithinFamilies & { readonly firstPart?: FirstPartMeasures }> {
   const { sortedParts } = table;
   // Not kept once used: 12 bytes a row.
@@ -377,7 +376,7 @@ async function runAdjust(file: string | undefined, options: AdjustOptions): Prom
     targets.table !== undefined &&
     !gzipNamed(targets.table) &&
     routeOutput(targets.table).kind === 'replace';
-  const result = await adjustOrExplain(table, options, settings, familyColumnNames, inPlace ? numberTextLength : undefined);
+  const result = await adjustOrExplain(table, options, settings, familyColumnNames, inPlace);
   const weightsName = table.weightsColumn === undefined ? undefined : columnName(table.shape, table.weightsColumn);
   const summary = summarize(result, options.methods, familyColumnNames, table.familyValues, options.alpha, weightsName);
   if (summary.rows.every((row) => row.tested === 0)) note('the table holds no p-values to adjust');

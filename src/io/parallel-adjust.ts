@@ -14,19 +14,38 @@ import { DataError } from '../errors.js';
 import { type FamilyOutcome, TooFewTestsError, type WithinFamilies } from '../families.js';
 import { METHODS, type Method } from '../methods.js';
 import { type Sorted, type SortedParts, sharedFloat64 } from '../procedures/sorting.js';
-import { type PartRejections, type StepForm, adjustPart, partRunning, ranksInWhole } from '../procedures/step-parts.js';
+import { type PartRejections, type StepForm, adjustPart, partMeasure, partRunning, ranksInWhole } from '../procedures/step-parts.js';
+import { numberTextLength } from './number-text.js';
 import { checkedTestCount } from '../procedures/validate.js';
 import { type StepsJob, startPart } from './parts.js';
 
+/** Values of the first part measured at a time, by whichever thread claims them (StepsJob.measureFirst). */
+export const MEASURE_CHUNK = 1 << 14;
+
+/** What a part's adjust stage gives: its rejections, and what it measured of the first part. */
+export interface StageOutcome extends PartRejections {
+  readonly measured: number;
+}
+
 /** What one part does at each stage, in whichever thread runs it. */
-export function stepsStage(job: StepsJob, measure?: (value: number) => number): PartRejections | null {
+export function stepsStage(job: StepsJob): StageOutcome | null {
   const form = METHODS.find((method) => method.token === job.token)?.stepForm as StepForm;
   if (job.stage === 'running') {
     if (job.withRanks) ranksInWhole(job.own.sorted, job.other, job.rowOffset === 0, job.ranks);
     partRunning(form, job.own.sorted, job.ranks, job.m, job.ownRunning);
     return null;
   }
-  return adjustPart(form, job.own, job.ranks, job.ownRunning, job.otherRunning, job.m, job.alpha, job.target, job.rowOffset, measure);
+  const own = adjustPart(form, job.own, job.ranks, job.ownRunning, job.otherRunning, job.m, job.alpha, job.target, job.rowOffset);
+  const { measureFirst } = job;
+  if (measureFirst === undefined) return { ...own, measured: 0 };
+  const { next, to, firstRanks } = measureFirst;
+  // The first part's running values are the second part's job's other ones.
+  const [firstRunning, secondRunning] = job.rowOffset === 0 ? [job.ownRunning, job.otherRunning] : [job.otherRunning, job.ownRunning];
+  let measured = 0;
+  for (let from = Atomics.add(next, 0, MEASURE_CHUNK); from < to; from = Atomics.add(next, 0, MEASURE_CHUNK)) {
+    measured += partMeasure(form, firstRanks, firstRunning, secondRunning, job.m, from, Math.min(to, from + MEASURE_CHUNK), numberTextLength);
+  }
+  return { ...own, measured };
 }
 
 /** The part in shared memory (the sort leaves it there, but for a table with -0 in it). */
@@ -49,9 +68,10 @@ export interface FirstPartMeasures {
  * p adjusted by each method, when the table is one family sorted in two
  * parts and every method is a step procedure; undefined otherwise (the
  * caller adjusts it in this thread). tests: the number of tests, when the
- * table holds only some. measureFirst, if given, is summed over each
- * method's adjusted values in the first part (the writer's text of them:
- * parallel-write.ts then knows where the second part's output starts).
+ * table holds only some. With measureFirst, the length of the text of each
+ * method's adjusted values in the first part (number-text.ts,
+ * numberTextLength) is summed too, shared between the two threads:
+ * parallel-write.ts then knows where the second part's output starts.
  */
 export async function adjustInTwoThreads(
   p: Float64Array,
@@ -59,7 +79,7 @@ export async function adjustInTwoThreads(
   methods: readonly Method[],
   alpha: number,
   tests: number | undefined,
-  measureFirst?: (value: number) => number,
+  measureFirst = false,
 ): Promise<(WithinFamilies & { readonly firstPart?: FirstPartMeasures }) | undefined> {
   if (!methods.every((method) => method.stepForm !== undefined)) return undefined;
   const n = p.length;
@@ -72,7 +92,7 @@ export async function adjustInTwoThreads(
   // Each part's running values, used by one method after another (a step form's fill at most n + 1).
   const firstRunning = sharedFloat64(split + 1);
   const secondRunning = sharedFloat64(n - split + 1);
-  const firstRanks = new Uint32Array(split);
+  const firstRanks = new Uint32Array(new SharedArrayBuffer(4 * split));
   const secondRanks = new Uint32Array(new SharedArrayBuffer(4 * (n - split)));
   const adjusted: Float64Array[] = [];
   const outcomes: FamilyOutcome[] = [];
@@ -84,8 +104,10 @@ export async function adjustInTwoThreads(
     const firstJob: StepsJob = { ...common, stage: 'running', own: first, other: second.sorted, ranks: firstRanks, ownRunning: firstRunning, otherRunning: secondRunning, rowOffset: 0 };
     const secondJob: StepsJob = { ...common, stage: 'running', own: second, other: first.sorted, ranks: secondRanks, ownRunning: secondRunning, otherRunning: firstRunning, rowOffset: split };
     await inBoth(secondJob, () => stepsStage(firstJob));
-    const [a, b] = (await inBoth({ ...secondJob, stage: 'adjust' }, () => stepsStage({ ...firstJob, stage: 'adjust' }, measureFirst))) as [PartRejections, PartRejections];
-    byMethod.push({ measured: a.measured, rejected: a.rejected });
+    // Measured by both threads: the worker would otherwise wait while this one measured them all.
+    const measure = measureFirst ? { next: new Int32Array(new SharedArrayBuffer(4)), to: split, firstRanks } : undefined;
+    const [a, b] = (await inBoth({ ...secondJob, stage: 'adjust', measureFirst: measure }, () => stepsStage({ ...firstJob, stage: 'adjust', measureFirst: measure }))) as [StageOutcome, StageOutcome];
+    byMethod.push({ measured: a.measured + b.measured, rejected: a.rejected });
     const rejected = a.rejected + b.rejected;
     outcomes.push({ tested: n, missing: 0, m, rejected, threshold: rejected > 0 ? Math.max(a.threshold, b.threshold) : null, pi0: null });
   }
@@ -97,10 +119,10 @@ export async function adjustInTwoThreads(
  * if the worker cannot (it failed to start, say), this thread runs the job
  * too. Both answers, this thread's first.
  */
-async function inBoth(job: StepsJob, here: () => PartRejections | null): Promise<[PartRejections | null, PartRejections | null]> {
-  let running: ReturnType<typeof startPart<PartRejections | null>> | undefined;
+async function inBoth(job: StepsJob, here: () => StageOutcome | null): Promise<[StageOutcome | null, StageOutcome | null]> {
+  let running: ReturnType<typeof startPart<StageOutcome | null>> | undefined;
   try {
-    running = startPart<PartRejections | null>(job);
+    running = startPart<StageOutcome | null>(job);
   } catch {
     // No worker to be had (none is built beside the sources, say).
   }

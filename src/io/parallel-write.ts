@@ -58,7 +58,7 @@ async function copyPart(fd: number, size: number, sink: ByteSink): Promise<void>
  * right place rather than into a temporary file that is then copied: the
  * descriptor of a regular file this thread writes from its start
  * (atomic-file.ts, OutputFile.fd), and the bytes of the new cells of the
- * first part's rows, delimiters included (measured as they were adjusted,
+ * first part's rows, delimiters included (measured once they were adjusted,
  * parallel-adjust.ts).
  */
 export interface OutputInPlace {

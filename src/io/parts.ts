@@ -68,6 +68,15 @@ export interface StepsJob {
   readonly target: Float64Array;
   /** The row of the part's first value. */
   readonly rowOffset: number;
+  /**
+   * Set when the first part's adjusted values are measured (the length of
+   * their text, for the writer: parallel-write.ts, OutputInPlace). Both
+   * threads measure, each once done with its own part: stretches of CHUNK
+   * values of the first part's sorted order, up to `to`, each claimed by
+   * adding to next[0] (shared), so that the one that finishes first takes
+   * more. firstRanks: that part's ranksInWhole.
+   */
+  readonly measureFirst?: { readonly next: Int32Array; readonly to: number; readonly firstRanks: Uint32Array } | undefined;
 }
 
 export type PartJob = WritePartJob | ReadPartJob | StepsJob;

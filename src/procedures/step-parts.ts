@@ -96,17 +96,27 @@ export function partRunning(form: StepForm, sorted: Float64Array, ranks: Uint32A
 export interface PartRejections {
   readonly rejected: number;
   readonly threshold: number;
-  /** The sum of measure over the part's adjusted values (0 without a measure). */
-  readonly measured: number;
+}
+
+/**
+ * The adjusted value of a part's k-th value: its running value, taken with
+ * the other part's from the first of its values after rank ranks[k] (the
+ * number of them before it is ranks[k] - k), scaled and capped as the form says.
+ */
+function adjustedAt(k: number, ranks: Uint32Array, ownRunning: Float64Array, otherRunning: Float64Array, up: boolean, down: boolean, factor: number, cap: boolean): number {
+  const before = (ranks[k] as number) - k;
+  let running: number;
+  if (up) running = Math.min(ownRunning[k] as number, otherRunning[before] as number);
+  else if (down) running = Math.max(ownRunning[k + 1] as number, otherRunning[before] as number);
+  else running = ownRunning[k] as number;
+  const scaled = factor * running;
+  return cap ? Math.min(1, scaled) : scaled;
 }
 
 /**
  * The adjusted values of one part, written by row: target[rowOffset +
  * order[k]] for its k-th value. ownRunning and otherRunning are the two
- * parts' partRunning; ranks the part's ranksInWhole. measure, if given, is
- * summed over the adjusted values (the writer measures their text with it);
- * it is called once per run of equal values, which lie together in this
- * order (the adjusted values of a step procedure rise with p).
+ * parts' partRunning; ranks the part's ranksInWhole.
  */
 export function adjustPart(
   form: StepForm,
@@ -118,40 +128,49 @@ export function adjustPart(
   alpha: number,
   target: Float64Array,
   rowOffset: number,
-  measure?: (value: number) => number,
 ): PartRejections {
   const { sorted, order } = part;
   const factor = form.factor(m);
   let rejected = 0;
   let threshold = -1;
-  let measured = 0;
-  let last = NaN;
-  let lastMeasure = 0;
   const n = sorted.length;
   const cap = form.cap;
   const up = form.direction === 'up';
   const down = form.direction === 'down';
   for (let k = 0; k < n; k++) {
-    // Values of the other part before this one: its rank less its index in its own part.
-    const before = (ranks[k] as number) - k;
-    let running: number;
-    if (up) running = Math.min(ownRunning[k] as number, otherRunning[before] as number);
-    else if (down) running = Math.max(ownRunning[k + 1] as number, otherRunning[before] as number);
-    else running = ownRunning[k] as number;
-    const scaled = factor * running;
-    const value = cap ? Math.min(1, scaled) : scaled;
+    const value = adjustedAt(k, ranks, ownRunning, otherRunning, up, down, factor, cap);
     target[rowOffset + (order[k] as number)] = value;
     if (value <= alpha) {
       rejected++;
       threshold = Math.max(threshold, sorted[k] as number);
     }
-    if (measure !== undefined) {
-      if (value !== last) {
-        last = value;
-        lastMeasure = measure(value);
-      }
-      measured += lastMeasure;
-    }
   }
-  return { rejected, threshold, measured };
+  return { rejected, threshold };
+}
+
+/**
+ * measure summed over the adjusted values of a part's values from..to-1 (in
+ * its sorted order), without writing them (the writer measures their text
+ * with it), so that any thread can measure any stretch of a part. The
+ * arguments are adjustPart's for that part. measure is called once per run
+ * of equal values, which lie together in this order (the adjusted values of
+ * a step procedure rise with p).
+ */
+export function partMeasure(form: StepForm, ranks: Uint32Array, ownRunning: Float64Array, otherRunning: Float64Array, m: number, from: number, to: number, measure: (value: number) => number): number {
+  const factor = form.factor(m);
+  const cap = form.cap;
+  const up = form.direction === 'up';
+  const down = form.direction === 'down';
+  let measured = 0;
+  let last = NaN;
+  let lastMeasure = 0;
+  for (let k = from; k < to; k++) {
+    const value = adjustedAt(k, ranks, ownRunning, otherRunning, up, down, factor, cap);
+    if (value !== last) {
+      last = value;
+      lastMeasure = measure(value);
+    }
+    measured += lastMeasure;
+  }
+  return measured;
 }
