@@ -69,3 +69,12 @@ describe('openOutput', () => {
     expect(readdirSync(folder)).toEqual([]);
   });
 });
+
+describe('temporaryNamePart', () => {
+  it('gives the process and 48 random bits, different on each call', async () => {
+    const { temporaryNamePart } = await import('../src/io/temporary-name.js');
+    const parts = Array.from({ length: 2000 }, () => temporaryNamePart());
+    for (const part of parts) expect(part).toMatch(new RegExp(`^${process.pid}-[0-9a-f]{12}$`));
+    expect(new Set(parts).size).toBe(parts.length);
+  });
+});

@@ -10,7 +10,6 @@
 // redirected to) is written through that stream; anything else that is not a
 // regular file (a named pipe, a terminal, /dev/null) is written directly.
 
-import { randomBytes } from 'node:crypto';
 import {
   chmodSync,
   createWriteStream,
@@ -26,6 +25,7 @@ import {
 import type { Writable } from 'node:stream';
 import { dirname, join, resolve } from 'node:path';
 import { UsageError } from '../errors.js';
+import { temporaryNamePart } from './temporary-name.js';
 
 const unfinished = new Set<string>();
 
@@ -145,7 +145,7 @@ export function openOutput(path: string): OutputFile {
     stream.on('error', remember);
     return { stream, direct: true, finish: () => closed(stream, () => failure), install: () => {}, abort: () => stream.destroy() };
   }
-  const temporary = join(dirname(route.path), `.famwise-${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
+  const temporary = join(dirname(route.path), `.famwise-${temporaryNamePart()}.tmp`);
   const fd = openForWriting(temporary, 'wx', path);
   unfinished.add(temporary);
   // Not closed by the stream itself when a write fails (autoClose): a worker thread may be writing

@@ -7,9 +7,9 @@
 
 import { once } from 'node:events';
 import { Readable, pipeline } from 'node:stream';
-import { constants, createGunzip, createGzip } from 'node:zlib';
 import { DataError } from '../errors.js';
 import type { OutputFile } from './atomic-file.js';
+import { zlib } from './lazy-builtin.js';
 import { peek } from './scan-input.js';
 import { type InputSource, extensionOf } from './source.js';
 
@@ -30,7 +30,7 @@ export function gunzipped(source: InputSource): InputSource {
     name: source.name,
     extension: extensionOf(source.name.replace(/\.gz$/i, '')),
     async *chunks() {
-      const gunzip = pipeline(Readable.from(source.chunks()), createGunzip({ chunkSize: CHUNK_SIZE }), () => {});
+      const gunzip = pipeline(Readable.from(source.chunks()), zlib().createGunzip({ chunkSize: CHUNK_SIZE }), () => {});
       try {
         for await (const chunk of gunzip) yield chunk as Buffer;
       } catch (error) {
@@ -54,6 +54,7 @@ export function compressedIfNamed(path: string | undefined, file: OutputFile): O
 
 /** Output through gzip into a file; finishing it ends the compressed stream first. */
 function gzipped(file: OutputFile): OutputFile {
+  const { constants, createGzip } = zlib();
   const gzip = createGzip({ level: constants.Z_BEST_SPEED, chunkSize: CHUNK_SIZE });
   gzip.pipe(file.stream, { end: false });
   // A failing file (a full disk) stops the compressor too, so that the writer hears of it.

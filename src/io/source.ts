@@ -4,8 +4,8 @@
 // other standard input and pipes are first read to their end (spill.ts),
 // gzip is decompressed on every pass (gzip.ts).
 
-import { spawnSync } from 'node:child_process';
 import { type Stats, closeSync, createReadStream, fstatSync, openSync, read, readFileSync, readSync, statSync } from 'node:fs';
+import { childProcess } from './lazy-builtin.js';
 
 export interface InputSource {
   /** For messages: the file name, or <stdin>. */
@@ -122,7 +122,7 @@ function sameFile(stat: Stats, fd: number): boolean {
  */
 function moveToEnd(fd: number): void {
   try {
-    if (spawnSync('tail', ['-c', '1'], { stdio: [fd, 'ignore', 'ignore'], timeout: 10_000 }).status === 0) return;
+    if (childProcess().spawnSync('tail', ['-c', '1'], { stdio: [fd, 'ignore', 'ignore'], timeout: 10_000 }).status === 0) return;
   } catch {
     // No tail to be had: read through below.
   }

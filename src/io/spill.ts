@@ -8,12 +8,12 @@
 // allowed, it is removed on exit instead. Cost: one extra write and read of
 // the input, both sequential.
 
-import { randomBytes } from 'node:crypto';
 import { rmSync, unlinkSync } from 'node:fs';
 import { type FileHandle, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
+import { temporaryNamePart } from './temporary-name.js';
 import { type InputSource, rangeSource } from './source.js';
 
 /**
@@ -41,7 +41,7 @@ function removeLeftOver(): void {
 
 /** A temporary file, opened and then unlinked at once (or removed at exit where that fails). */
 export async function temporaryFile(): Promise<FileHandle> {
-  const path = join(tmpdir(), `famwise-${process.pid}-${randomBytes(6).toString('hex')}.spill`);
+  const path = join(tmpdir(), `famwise-${temporaryNamePart()}.spill`);
   const handle = await open(path, 'wx+', 0o600);
   openHandles.add(handle);
   try {
