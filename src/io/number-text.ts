@@ -131,7 +131,10 @@ function shortestFraction(v: number): number {
     const x = product - base + error;
     let k = Math.floor(x);
     const over = x - k;
-    if (over > 0.5 || (over === 0.5 && (k & 1) !== 0)) k++;
+    // Worked out every time, not only at an exact tie: an operation first met in the middle of a
+    // large table makes the engine drop the optimised writer and compile it again.
+    const odd = (k & 1) !== 0;
+    if (over > 0.5 || (over === 0.5 && odd)) k++;
     if (!(Math.abs(x - k) < half * power)) continue;
     foundBase = base;
     foundK = k;
@@ -170,18 +173,13 @@ let splitLower = 0;
  * 10^8 + splitLower.
  */
 function splitDigits(base: number, k: number): number {
-  let upper = Math.floor(base / 1e8);
-  let lower = base - upper * 1e8 + k;
-  while (lower < 0) {
-    upper--;
-    lower += 1e8;
-  }
-  while (lower >= 1e8) {
-    upper++;
-    lower -= 1e8;
-  }
-  splitLower = lower;
-  return upper;
+  const upper = Math.floor(base / 1e8);
+  const lower = base - upper * 1e8 + k;
+  // lower is an integer from -1e8 to below 2e8 (all exact): the carry, -1, 0 or 1, taken without
+  // a branch that runs only now and then (the same reason as the tie's parity above).
+  const carry = Math.floor(lower / 1e8);
+  splitLower = lower - carry * 1e8;
+  return upper + carry;
 }
 
 /**
