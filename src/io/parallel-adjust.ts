@@ -15,8 +15,8 @@ import { type FamilyOutcome, TooFewTestsError, type WithinFamilies } from '../fa
 import { METHODS, type Method } from '../methods.js';
 import { type Sorted, type SortedParts, sharedFloat64 } from '../procedures/sorting.js';
 import { type PartRejections, type StepForm, adjustPart, partMeasure, partRunning, ranksInWhole } from '../procedures/step-parts.js';
-import { numberTextLength } from './number-text.js';
 import { checkedTestCount } from '../procedures/validate.js';
+import { numberTextLength } from './number-text.js';
 import { type StepsJob, startPart } from './parts.js';
 
 /** Values of the first part measured at a time, by whichever thread claims them (StepsJob.measureFirst). */

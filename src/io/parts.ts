@@ -71,10 +71,13 @@ export interface StepsJob {
   /**
    * Set when the first part's adjusted values are measured (the length of
    * their text, for the writer: parallel-write.ts, OutputInPlace). Both
-   * threads measure, each once done with its own part: stretches of CHUNK
-   * values of the first part's sorted order, up to `to`, each claimed by
-   * adding to next[0] (shared), so that the one that finishes first takes
-   * more. firstRanks: that part's ranksInWhole.
+   * threads measure, each once done with its own part: stretches of
+   * MEASURE_CHUNK values of the first part's sorted order, up to `to`, each
+   * claimed by adding to next[0] (shared), so that the one that finishes
+   * first takes more. firstRanks: that part's ranksInWhole. (A worker that
+   * fails after claiming a stretch leaves the sum short: the first part's
+   * output then ends elsewhere than told, and parallel-write.ts writes the
+   * whole file again, as for any place told wrong.)
    */
   readonly measureFirst?: { readonly next: Int32Array; readonly to: number; readonly firstRanks: Uint32Array } | undefined;
 }
