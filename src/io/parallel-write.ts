@@ -97,8 +97,6 @@ export async function writeTableInParts(
   split: SplitPoint,
   inPlace?: OutputInPlace,
 ): Promise<void> {
-  // The sort's working arrays and the procedures' own are garbage by now: given back before the writing.
-  releaseMemory();
   const fd = (source.descriptor as () => number)();
   const partPlan = planFrom(plan, split.row);
   /** Writes the part from the split on in this thread, after the first. */
@@ -124,8 +122,11 @@ export async function writeTableInParts(
 
   // Where the second part's output starts, when it can be told before the first is written.
   const at = inPlace && inPlace.firstRows === split.row ? firstPartOutputBytes(shape, plannedColumns(plan), format, split.offset, inPlace.firstCellBytes) : undefined;
+  // The sort's working arrays and the procedures' own are garbage by now: given back before the
+  // writing, once the worker has its part (it need not wait for this thread's collection).
   if (inPlace && at !== undefined) {
     const second = startPart<{ written: number; rows: number }>(job(inPlace.fd, at), movableBuffers(partPlan));
+    releaseMemory();
     let first: number;
     try {
       first = await writeFirstHere();
@@ -166,10 +167,12 @@ export async function writeTableInParts(
     temporary = await temporaryFile();
   } catch {
     // No temporary file to be had (TMPDIR missing or full): one thread, which needs none.
+    releaseMemory();
     await writeTable(source, shape, plannedColumns(plan), format, sink, rows);
     return;
   }
   const second = startPart<{ written: number; rows: number }>(job(temporary.fd, 0), movableBuffers(partPlan));
+  releaseMemory();
   // The temporary file is closed only once the worker is known to be done with it: closing it
   // while the worker may still write could hand its descriptor to another file. Otherwise it
   // stays open (unlinked) until the process exits.
