@@ -5,8 +5,8 @@ import { Growable } from '../src/io/growable.js';
 
 describe('Growable', () => {
   it('gives back every value pushed, in order, at every size around its block edges', () => {
-    // The first block holds 1024 values, later ones 65536: sizes on either side of each edge.
-    for (const size of [0, 1, 1023, 1024, 1025, 66559, 66560, 66561, 200_000]) {
+    // The first two blocks hold 16 values each, later ones 65536: sizes on either side of each edge.
+    for (const size of [0, 1, 15, 16, 17, 31, 32, 33, 65567, 65568, 65569, 131_104, 131_105, 200_000]) {
       const values = new Growable((length) => new Float64Array(length));
       for (let i = 0; i < size; i++) values.push(i + 0.5);
       const out = values.toArray();
@@ -23,7 +23,7 @@ describe('Growable', () => {
     const copy = ids.toArray(Int32Array.of(-1, -2));
     ids.push(7);
     expect(copy.length).toBe(70_002);
-    expect([copy[0], copy[1023], copy[1024], copy[66_559], copy[66_560], copy[69_999], copy[70_000], copy[70_001]]).toEqual([0, 1023, 1024, 66_559, 66_560, 69_999, -1, -2]);
+    expect([copy[0], copy[15], copy[16], copy[31], copy[32], copy[65_567], copy[65_568], copy[69_999], copy[70_000], copy[70_001]]).toEqual([0, 15, 16, 31, 32, 65_567, 65_568, 69_999, -1, -2]);
     expect(ids.toArray().length).toBe(70_001);
   });
 });

@@ -8,11 +8,13 @@ type NumberArray = Float64Array | Int32Array;
 
 const BLOCK = 1 << 16;
 /**
- * The first block is small, so that the path that starts a new block runs
- * early, before the engine optimises the loop that pushes (a path it has not
- * seen run would make it compile that loop again when it came).
+ * The first two blocks are tiny, so that the path that starts a new block
+ * runs early, before the engine optimises the loop that pushes (a path it
+ * has not seen run would make it compile that loop again when it came): the
+ * reader's line loop is optimised within its first thousand lines. Twice,
+ * because the list of full blocks changes its kind of elements the first time.
  */
-const FIRST_BLOCK = 1 << 10;
+const FIRST_BLOCK = 16;
 
 export class Growable<T extends NumberArray> {
   private readonly full: T[] = [];
@@ -33,7 +35,7 @@ export class Growable<T extends NumberArray> {
         this.full.push(this.block);
         this.inFull += this.used;
       }
-      this.block = this.allocate(this.length === 0 ? FIRST_BLOCK : BLOCK);
+      this.block = this.allocate(this.length < 2 * FIRST_BLOCK ? FIRST_BLOCK : BLOCK);
       this.used = 0;
     }
     this.block[this.used++] = value;
