@@ -13,8 +13,8 @@ import { type FileHandle, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
-import { temporaryNamePart } from './temporary-name.js';
 import { type InputSource, rangeSource } from './source.js';
+import { temporaryNamePart } from './temporary-name.js';
 
 /**
  * Inputs up to this size are kept in memory (typing at the terminal, short
