@@ -1,10 +1,10 @@
 // famwise adjust end to end, through the built CLI.
 import { spawnSync } from 'node:child_process';
-import { chmodSync, existsSync, lstatSync, mkdtempSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import { chmodSync, closeSync, existsSync, lstatSync, mkdtempSync, openSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { CLI, famwise } from './helpers/cli.js';
+import { CLI, type Run, famwise } from './helpers/cli.js';
 
 const work = mkdtempSync(join(tmpdir(), 'famwise-e2e-'));
 function file(name: string, content: string | Buffer): string {
@@ -136,6 +136,45 @@ describe('pipes and formats', () => {
     expect(run.stderr).toMatch(/\(all rows\)\s+bh\s+200000/);
     expect(run.stderr).not.toMatch(/EPIPE|\n\s+at /);
     expect(JSON.parse(readFileSync(summary, 'utf8')).rows[0].tested).toBe(200_000);
+  });
+});
+
+describe('long first records', () => {
+  // The delimiter and the line endings are told from the first two records, which can be long.
+  const wide = (ending: string, delimiter: string, cells: number): string => {
+    let text = `p${`${delimiter}c`.repeat(cells)}${ending}`;
+    for (const p of ['0.01', '0.02', '0.5']) text += `${p}${`${delimiter}0`.repeat(cells)}${ending}`;
+    return text;
+  };
+  /** The command run on the file by name, with standard input redirected from it, and through a pipe. */
+  const everyWay = (name: string, content: string): Run[] => {
+    const path = file(name, content);
+    const fd = openSync(path, 'r');
+    try {
+      const redirected = spawnSync(process.execPath, [CLI, 'adjust', '-q'], { stdio: [fd, 'pipe', 'pipe'] });
+      const asRun = { status: redirected.status, stdout: redirected.stdout.toString(), stderr: redirected.stderr.toString(), stdoutBytes: redirected.stdout };
+      return [famwise(['adjust', path, '-q']), asRun, famwise(['adjust', '-q'], content)];
+    } finally {
+      closeSync(fd);
+    }
+  };
+
+  it('reads a table with classic Mac line endings (a lone CR) whose header is 66 KB, however it is given', () => {
+    for (const run of everyWay('cr-wide.csv', wide('\r', ',', 33_000))) {
+      expect(run.stderr).toBe('');
+      expect(run.status).toBe(0);
+      const rows = run.stdout.split('\r').slice(0, 4);
+      expect(rows.map((row) => row.split(',').slice(-2).join(' '))).toEqual(['adj_bh rej_bh', '0.03 true', '0.03 true', '0.5 false']);
+    }
+  });
+
+  it('tells a semicolon delimiter from commas inside long first records, however the table is given', () => {
+    const content = `x,y;${wide('\n', ';', 20_000).replace(/\n(?=.)/g, '\nu,v;')}`;
+    for (const run of everyWay('semicolons-wide.csv', content)) {
+      expect(run.stderr).toBe('');
+      expect(run.status).toBe(0);
+      expect(run.stdout.split('\n').slice(0, 4).map((row) => row.split(';').slice(-2).join(' '))).toEqual(['adj_bh rej_bh', '0.03 true', '0.03 true', '0.5 false']);
+    }
   });
 });
 

@@ -368,6 +368,13 @@ function sharedCopy(values: Float64Array): Float64Array {
   return copy;
 }
 
+/**
+ * The first bytes the delimiter and the line endings are told from (they
+ * look at the first two records, which can be long: a header of 10,000
+ * columns): 4 MB, what a file's first read has always given them.
+ */
+const SNIFF_BYTES = 4 << 20;
+
 /** Searched past the middle of the input for a line break, to split it there. */
 const SPLIT_WINDOW = 1 << 20;
 
@@ -404,7 +411,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   // parts is linear. Other callers (inspect) would only pay for it.
   const sortParts = inTwoParts && options.sortP === true && (options.familyColumns ?? []).length === 0 && options.weightsColumn === undefined;
   let missingRows = 0;
-  const head = known ? undefined : await peek(source, 1 << 16);
+  const head = known ? undefined : await peek(source, SNIFF_BYTES);
   if (head) refuseUnreadable(head, source.name);
   const delimiter = known?.delimiter ?? options.delimiter ?? sniffDelimiter(head as Buffer, source.extension);
   const loneCrEndsLine = known?.loneCrEndsLine ?? sniffLoneCr(head as Buffer);

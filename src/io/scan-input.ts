@@ -39,7 +39,10 @@ export interface ScanHandlers {
   readonly pause?: { readonly at: number; resume(line: number): Promise<boolean> };
 }
 
-/** The first bytes of a source, at least `want` of them unless it is shorter. */
+/**
+ * The first bytes of a source, at least `want` of them unless it is shorter
+ * (exactly `want` from a source read by position; from a stream, whole chunks).
+ */
 export async function peek(source: InputSource, want: number): Promise<Buffer> {
   // Read by position: just those bytes. (A stream would read a whole 4 MB chunk, and emit an
   // error as it is given up: some 10-20 ms at start-up, twice.)
