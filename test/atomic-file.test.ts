@@ -1,13 +1,16 @@
 // Output files: all or nothing, and nothing left behind.
-import { chmodSync, lstatSync, mkdtempSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import { chmodSync, lstatSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { openOutput, removeUnfinishedFiles, routeOutput } from '../src/io/atomic-file.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
+
+afterAll(removeTemporaryFolders);
 
 describe('openOutput', () => {
   it('shows nothing at the target until commit, then the whole content', async () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    const folder = temporaryFolder('famwise-atomic-');
     const target = join(folder, 'out.csv');
     const file = openOutput(target);
     file.stream.write('a,b\n');
@@ -20,7 +23,7 @@ describe('openOutput', () => {
   });
 
   it('leaves an existing file as it was on abort, and removes the temporary file', () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    const folder = temporaryFolder('famwise-atomic-');
     const target = join(folder, 'out.csv');
     writeFileSync(target, 'old\n');
     const file = openOutput(target);
@@ -32,7 +35,7 @@ describe('openOutput', () => {
   });
 
   it('keeps the permissions of the file it replaces', async () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    const folder = temporaryFolder('famwise-atomic-');
     const target = join(folder, 'out.csv');
     writeFileSync(target, 'old\n');
     chmodSync(target, 0o600);
@@ -44,7 +47,7 @@ describe('openOutput', () => {
   });
 
   it('creates the file a dangling symbolic link points to, and keeps the link', async () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    const folder = temporaryFolder('famwise-atomic-');
     symlinkSync('made.csv', join(folder, 'link.csv'));
     const file = openOutput(join(folder, 'link.csv'));
     file.stream.write('x\n');
@@ -61,7 +64,7 @@ describe('openOutput', () => {
   });
 
   it('removes every unfinished temporary file on an interrupt', () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-atomic-'));
+    const folder = temporaryFolder('famwise-atomic-');
     openOutput(join(folder, 'a.csv'));
     openOutput(join(folder, 'b.json'));
     expect(readdirSync(folder)).toHaveLength(2);

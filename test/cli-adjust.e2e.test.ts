@@ -3,10 +3,13 @@ import { spawnSync } from 'node:child_process';
 import { chmodSync, closeSync, existsSync, lstatSync, mkdtempSync, openSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { CLI, type Run, famwise } from './helpers/cli.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const work = mkdtempSync(join(tmpdir(), 'famwise-e2e-'));
+afterAll(removeTemporaryFolders);
+
+const work = temporaryFolder('famwise-e2e-');
 function file(name: string, content: string | Buffer): string {
   const path = join(work, name);
   writeFileSync(path, content);

@@ -1,13 +1,15 @@
 // famwise inspect, and the SVG plots of inspect and adjust, through the built CLI.
 import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { famwise } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const work = mkdtempSync(join(tmpdir(), 'famwise-inspect-'));
+afterAll(removeTemporaryFolders);
+
+const work = temporaryFolder('famwise-inspect-');
 const demo = readFileSync(new URL('../demo-data/enzyme-screen.csv', import.meta.url), 'utf8');
 
 /** A table of two families: one of uniform nulls, one with signal and three exact zeros. */

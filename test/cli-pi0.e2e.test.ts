@@ -1,13 +1,15 @@
 // famwise adjust with the adaptive FDR methods (storey, bky) and the pi0
 // options, end to end through the built CLI.
-import { mkdtempSync, readFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { famwise } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const work = mkdtempSync(join(tmpdir(), 'famwise-pi0-'));
+afterAll(removeTemporaryFolders);
+
+const work = temporaryFolder('famwise-pi0-');
 
 // Two families of 200 tests: in "deep" 40% are real effects, in "flat" none.
 const random = seededRandom(31);

@@ -2,14 +2,16 @@
 // steer a terminal, plots that would mix into the table, unreadable files,
 // and letter case in --tail.
 import { spawnSync } from 'node:child_process';
-import { chmodSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { chmodSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { CLI, expectRefusal, famwise } from './helpers/cli.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const folder = mkdtempSync(join(tmpdir(), 'famwise-review-'));
+afterAll(removeTemporaryFolders);
+
+const folder = temporaryFolder('famwise-review-');
 
 describe('table values that are control characters', () => {
   const table = 'grp,p\n"a\x1b[31mRED",0.01\n"a\x1b[31mRED",0.5\n"b\u202eX",0.2\n';

@@ -4,11 +4,13 @@
 // interrupt leaves no temporary files. The failure mid-way is made by cutting
 // the input file short while famwise writes it out (its second pass).
 import { type ChildProcess, spawn, spawnSync } from 'node:child_process';
-import { closeSync, existsSync, mkdtempSync, openSync, readFileSync, readdirSync, statSync, truncateSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { closeSync, existsSync, openSync, readFileSync, readdirSync, statSync, truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { CLI } from './helpers/cli.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
+
+afterAll(removeTemporaryFolders);
 
 const ROWS = 400_000;
 
@@ -21,7 +23,7 @@ const LARGE = (() => {
 
 /** A folder holding large.csv; famwise runs there, so messages name large.csv. */
 function folderWithLargeTable(): { folder: string; input: string } {
-  const folder = mkdtempSync(join(tmpdir(), 'famwise-safety-'));
+  const folder = temporaryFolder('famwise-safety-');
   const input = join(folder, 'large.csv');
   writeFileSync(input, LARGE);
   return { folder, input };
@@ -113,7 +115,7 @@ describe('an interrupt while writing -o FILE', () => {
 
 describe('standard output sent into the input file', () => {
   it('is refused before anything is written (famwise adjust t.csv >> t.csv, or > t.csv, which the shell has already emptied)', () => {
-    const folder = mkdtempSync(join(tmpdir(), 'famwise-self-'));
+    const folder = temporaryFolder('famwise-self-');
     const table = join(folder, 't.csv');
     writeFileSync(table, 'id,p\na,0.01\nb,0.2\n');
     for (const extra of [[], ['-o', '-'], ['-o', '/dev/stdout']]) {

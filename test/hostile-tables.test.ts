@@ -2,13 +2,15 @@
 // fixtures/hostile-tables/manifest.json runs through the built CLI, and its
 // exit status, its message and (when accepted) its output are checked. What
 // each field of the manifest means is in its "about".
-import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { famwise } from './helpers/cli.js';
 import { LARGE_TABLES } from './helpers/large-tables.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
+
+afterAll(removeTemporaryFolders);
 
 interface CorpusCase {
   readonly name: string;
@@ -25,7 +27,7 @@ interface CorpusCase {
 
 const corpus = fileURLToPath(new URL('../fixtures/hostile-tables/', import.meta.url));
 const { cases } = JSON.parse(readFileSync(join(corpus, 'manifest.json'), 'utf8')) as { cases: CorpusCase[] };
-const generatedFolder = mkdtempSync(join(tmpdir(), 'famwise-corpus-'));
+const generatedFolder = temporaryFolder('famwise-corpus-');
 
 /** The case's input, and the folder to run in (so that messages name the file as the manifest does). */
 function inputOf(entry: CorpusCase): { bytes: Buffer; folder: string } {
