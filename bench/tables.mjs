@@ -128,6 +128,13 @@ for (const rows of args.rows.split(',').map(Number)) {
       return `${ratio('famwise, file')} (file), ${ratio('famwise, stdin from the file')} (stdin from the file), ${ratio('famwise, stdin from a pipe')} (pipe)`;
     };
     console.log(`  ratio famwise / reference, wall time: ${ratios((m) => m.seconds)}`);
+    // Each round's famwise run against the reference run of the same round, seconds apart: the
+    // median of these ratios leaves out most of the machine's drift from one minute to the next.
+    const perRound = (name) => {
+      const reference = results['R data.table reference'];
+      return median(results[name].map((m, run) => m.seconds / reference[run].seconds)).toFixed(2);
+    };
+    console.log(`  median of the rounds' own ratios, wall: ${perRound('famwise, file')} (file), ${perRound('famwise, stdin from the file')} (stdin from the file), ${perRound('famwise, stdin from a pipe')} (pipe)`);
     // Steadier on a shared machine than wall time (not what the targets are set in).
     console.log(`  ratio famwise / reference, CPU time:  ${ratios((m) => m.cpu)}`);
   }
