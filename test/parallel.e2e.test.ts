@@ -9,8 +9,7 @@
 // parts forced (FAMWISE_PARALLEL_MIN_BYTES=0) and with one thread, through
 // the built command line.
 import { spawnSync } from 'node:child_process';
-import { appendFileSync, closeSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { appendFileSync, closeSync, openSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -20,9 +19,10 @@ import { readTable } from '../dist/io/read-table.js';
 import { type Sorted, mergeSorted, sortAscending } from '../dist/procedures/sorting.js';
 import { CLI } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const work = mkdtempSync(join(tmpdir(), 'famwise-parts-'));
-afterAll(() => rmSync(work, { recursive: true, force: true }));
+const work = temporaryFolder('famwise-parts-');
+afterAll(removeTemporaryFolders);
 
 const ONE_THREAD = String(Number.MAX_SAFE_INTEGER);
 

@@ -1,11 +1,16 @@
 // scanInput, which feeds the byte scanner block by block (and its first
 // block in two calls), reports exactly the records that one scan of the
 // whole input reports: the same fields, lines, bytes and offsets.
-import { describe, expect, it } from 'vitest';
+import { closeSync, openSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
 import { RecordScanner, type RecordView, fieldText } from '../src/io/csv-scan.js';
-import { scanInput } from '../src/io/scan-input.js';
-import { bufferSource } from '../src/io/source.js';
+import { peek, scanInput } from '../src/io/scan-input.js';
+import { bufferSource, fileSource, rangeSource } from '../src/io/source.js';
 import { seededRandom } from './helpers/random.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
+
+afterAll(removeTemporaryFolders);
 
 interface Seen {
   fields: string[];
@@ -65,33 +70,28 @@ describe('scanInput', () => {
 
 describe('peek', () => {
   it('gives the first bytes of a source, read by position or streamed, and at most what a bounded source holds', async () => {
-    const { mkdtempSync, openSync, rmSync, writeFileSync } = await import('node:fs');
-    const { tmpdir } = await import('node:os');
-    const { join } = await import('node:path');
-    const { peek } = await import('../src/io/scan-input.js');
-    const { fileSource, rangeSource } = await import('../src/io/source.js');
-    const work = mkdtempSync(join(tmpdir(), 'famwise-peek-'));
+    const work = temporaryFolder('famwise-peek-');
+    const bytes = messyTable(seededRandom(5), 200_000);
+    const path = join(work, 'table.csv');
+    writeFileSync(path, bytes);
+    for (const want of [0, 2, 1 << 16, 199_999, bytes.length, bytes.length + 1, 10_000_000]) {
+      const expected = bytes.subarray(0, want);
+      expect((await peek(fileSource(path), want)).equals(expected)).toBe(true);
+      // Streamed (no descriptor): at least `want` bytes, starting with them.
+      const streamed = await peek(bufferSource(bytes, 'table.csv'), want);
+      expect(streamed.subarray(0, want).equals(expected)).toBe(true);
+    }
+    // A file that grew after its size was taken is read as a stream would read it; a bounded one is not.
+    const source = fileSource(path);
+    writeFileSync(path, Buffer.concat([bytes, Buffer.from('more,rows,0.5\n')]));
+    expect((await peek(source, 10_000_000)).length).toBe(bytes.length + 14);
+    // Standard input redirected from a file holds what the file held at the start.
+    const fd = openSync(path, 'r');
     try {
-      const bytes = messyTable(seededRandom(5), 200_000);
-      const path = join(work, 'table.csv');
-      writeFileSync(path, bytes);
-      for (const want of [0, 2, 1 << 16, 199_999, bytes.length, bytes.length + 1, 10_000_000]) {
-        const expected = bytes.subarray(0, want);
-        expect((await peek(fileSource(path), want)).equals(expected)).toBe(true);
-        // Streamed (no descriptor): at least `want` bytes, starting with them.
-        const streamed = await peek(bufferSource(bytes, 'table.csv'), want);
-        expect(streamed.subarray(0, want).equals(expected)).toBe(true);
-      }
-      // A file that grew after its size was taken is read as a stream would read it; a bounded one is not.
-      const source = fileSource(path);
-      writeFileSync(path, Buffer.concat([bytes, Buffer.from('more,rows,0.5\n')]));
-      expect((await peek(source, 10_000_000)).length).toBe(bytes.length + 14);
-      // Standard input redirected from a file holds what the file held at the start.
-      const fd = openSync(path, 'r');
       const bounded = { name: '<stdin>', extension: '', size: 1000, bounded: true, descriptor: () => fd, chunks: () => rangeSource('<stdin>', fd, 0, 1000).chunks() };
       expect((await peek(bounded, 1 << 16)).equals(bytes.subarray(0, 1000))).toBe(true);
     } finally {
-      rmSync(work, { recursive: true, force: true });
+      closeSync(fd);
     }
   });
 });

@@ -5,7 +5,7 @@
 // missing values into plain lines, so that the scanner's fast and general
 // paths both carry it.
 import { spawn } from 'node:child_process';
-import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
@@ -15,10 +15,11 @@ import { adjustBenjaminiHochberg, adjustHolm } from '../src/index.js';
 import { spilledSource } from '../src/io/spill.js';
 import { CLI, famwise } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
 const ROWS = 200_000;
-const work = mkdtempSync(join(tmpdir(), 'famwise-streaming-'));
-afterAll(() => rmSync(work, { recursive: true, force: true }));
+const work = temporaryFolder('famwise-streaming-');
+afterAll(removeTemporaryFolders);
 
 interface Row {
   content: string;

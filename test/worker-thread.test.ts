@@ -1,13 +1,13 @@
 // The guess, from the arguments alone, that a table will be read in two
 // parts, on which the command's first module starts the worker thread
 // before loading the rest (io/worker-thread.ts).
-import { mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { looksParted } from '../dist/io/worker-thread.js';
+import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
-const work = mkdtempSync(join(tmpdir(), 'famwise-early-'));
+const work = temporaryFolder('famwise-early-');
 const big = join(work, 'big.csv');
 const small = join(work, 'small.csv');
 writeFileSync(big, 'p\n'.padEnd(4000, '0'));
@@ -17,7 +17,7 @@ process.env.FAMWISE_PARALLEL_MIN_BYTES = '1000';
 afterAll(() => {
   if (saved === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
   else process.env.FAMWISE_PARALLEL_MIN_BYTES = saved;
-  rmSync(work, { recursive: true, force: true });
+  removeTemporaryFolders();
 });
 
 const noStdin = (): undefined => undefined;
