@@ -48,11 +48,16 @@ export function workerFile(): string | undefined {
   return ['./part-worker.mjs', '../cli/part-worker.mjs'].map((relative) => fileURLToPath(new URL(relative, import.meta.url))).find((path) => existsSync(path));
 }
 
-/** Smallest input (bytes) done in two parts; FAMWISE_PARALLEL_MIN_BYTES sets it (tests use 0; a huge number turns it off). */
-export function smallestInParts(): number {
-  const text = process.env.FAMWISE_PARALLEL_MIN_BYTES?.trim() ?? '';
+/** A size in bytes set by an environment variable (tests use 0; a huge number turns the thing off), or else the default. */
+export function sizeSetting(env: NodeJS.ProcessEnv, name: string, otherwise: number): number {
+  const text = env[name]?.trim() ?? '';
   const set = Number(text);
-  return text !== '' && set >= 0 ? set : SMALLEST;
+  return text !== '' && set >= 0 ? set : otherwise;
+}
+
+/** Smallest input (bytes) done in two parts; FAMWISE_PARALLEL_MIN_BYTES sets it. */
+export function smallestInParts(env: NodeJS.ProcessEnv = process.env): number {
+  return sizeSetting(env, 'FAMWISE_PARALLEL_MIN_BYTES', SMALLEST);
 }
 
 /** A new worker; the caller listens for its errors. */
@@ -65,29 +70,37 @@ export function newWorker(file: string): Worker {
   return new Worker(file, { resourceLimits: { maxYoungGenerationSizeMb: YOUNG_GENERATION_MB } });
 }
 
-function isLargeFile(stat: Stats): boolean {
-  return stat.isFile() && stat.size >= smallestInParts();
+/**
+ * The size of the largest table the command line names, or of standard
+ * input if it is a regular file; 0 for none, or for a command that never
+ * reads a table in two parts (a guess, from the arguments alone).
+ */
+export function largestInput(args: readonly string[], stdinStat: () => Stats | undefined): number {
+  const at = args.findIndex((arg) => !arg.startsWith('-'));
+  if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return 0;
+  const rest = args.slice(at + 1);
+  const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
+  const sizes = [...paths.map((path) => fileSize(() => statSync(path))), fileSize(stdinStat)];
+  return Math.max(...sizes);
+}
+
+function fileSize(stat: () => Stats | undefined): number {
+  try {
+    const found = stat();
+    return found?.isFile() ? found.size : 0;
+  } catch {
+    return 0;
+  }
 }
 
 /** Whether the command line looks like one that will read a table in two parts (a guess, from the arguments alone). */
 export function looksParted(args: readonly string[], stdinStat: () => Stats | undefined): boolean {
-  const at = args.findIndex((arg) => !arg.startsWith('-'));
-  if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return false;
-  const rest = args.slice(at + 1);
-  const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
-  const large = paths.some((path) => {
-    try {
-      return isLargeFile(statSync(path));
-    } catch {
-      return false;
-    }
-  });
-  if (large) return true;
-  const stdin = stdinStat();
-  return stdin !== undefined && isLargeFile(stdin);
+  const size = largestInput(args, stdinStat);
+  return size > 0 && size >= smallestInParts();
 }
 
-function stdinStat(): Stats | undefined {
+/** Standard input's status; undefined if it has none (closed). */
+export function stdinStat(): Stats | undefined {
   try {
     return fstatSync(0);
   } catch {

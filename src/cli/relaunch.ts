@@ -1,0 +1,104 @@
+// Running the command for a large table again, in a child Node process
+// started with --no-concurrent-recompilation, on a machine of two cores or
+// fewer.
+//
+// A large table is done in two threads (io/parts.ts), which keep both cores
+// busy. The engine optimises hot code in background threads of its own,
+// which then compete with the two working threads while the code waiting
+// for them runs slower meanwhile. The worker's engine is told to compile in
+// its own thread (io/worker-thread.ts), but the main thread's engine exists
+// before any of famwise's code runs and keeps its default: at a million rows
+// that cost about 0.1 s of a 1.1 s run (measured with the flag given to node
+// by hand). The flag can only be given on Node's command line: NODE_OPTIONS
+// refuses it, setting it from within changes only engines made afterwards,
+// and a script's first line cannot pass it everywhere (BusyBox's env has no
+// -S). So when the table is large enough to repay a second start, this
+// process starts the command again in a child with the flag, passes on the
+// signals it gets, and ends with the child's exit status; the child does
+// everything else, and it alone uses standard input and output.
+//
+// The child's environment lacks NODE_EXTRA_CA_CERTS: famwise opens no
+// connections, and Node reads every certificate of that file when it
+// starts (55 ms for the 150 of a system bundle, on the benchmark machine).
+
+import type { Stats } from 'node:fs';
+import { availableParallelism, constants } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { childProcess } from '../io/lazy-builtin.js';
+import { largestInput, sizeSetting, smallestInParts, workerFile } from '../io/worker-thread.js';
+
+/** Set in the child's environment: it runs the command itself. */
+const CHILD = 'FAMWISE_RELAUNCHED';
+/**
+ * Below this many bytes of input the command runs in this process
+ * (FAMWISE_RELAUNCH_MIN_BYTES sets another). At 20 MB (half a million rows
+ * of the benchmark's table) the child's start cost what the flag saved; at
+ * 42 MB the child was 70 ms faster (medians of 15 runs in turns with the
+ * command run directly).
+ */
+const SMALLEST = 32 << 20;
+const FLAG = '--no-concurrent-recompilation';
+/** Signals passed on to the child; the child's own handlers then tidy up and end (cli/main.ts). */
+const PASSED_ON = ['SIGINT', 'SIGTERM', 'SIGHUP'] as const;
+
+export interface RelaunchContext {
+  readonly env: NodeJS.ProcessEnv;
+  /** Node's own options this process was started with. */
+  readonly execArgv: readonly string[];
+  readonly cores: number;
+  readonly stdinStat: () => Stats | undefined;
+}
+
+/**
+ * Whether to run the command in a child: a table large enough, to be read in
+ * two parts, on two cores or fewer, unless this is the child, or Node was
+ * started with options of its own, which a child would not have, or with a
+ * debugger in NODE_OPTIONS, which a child would start again.
+ */
+export function relaunchWanted(args: readonly string[], context: RelaunchContext): boolean {
+  const { env, execArgv, cores } = context;
+  if (env[CHILD] === '1' || execArgv.length > 0 || /--inspect/.test(env.NODE_OPTIONS ?? '') || cores > 2 || workerFile() === undefined) return false;
+  const size = largestInput(args, context.stdinStat);
+  return size > 0 && size >= sizeSetting(env, 'FAMWISE_RELAUNCH_MIN_BYTES', SMALLEST) && size >= smallestInParts(env);
+}
+
+/** The child's environment: this one's, marked as the child's, without the certificates file. */
+export function childEnvironment(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
+  const { NODE_EXTRA_CA_CERTS: _certificates, ...rest } = env;
+  return { ...rest, [CHILD]: '1' };
+}
+
+/**
+ * Runs the command in a child started with the flag, and sets this
+ * process's exit status to the child's; resolves false, having done
+ * nothing, if no child could be started (this process then runs the command).
+ */
+export function runInChild(entry: string, args: readonly string[], env: NodeJS.ProcessEnv): Promise<boolean> {
+  return new Promise<boolean>((resolve) => {
+    let settled = false;
+    const child = childProcess().spawn(process.execPath, [FLAG, entry, ...args], { stdio: 'inherit', env: childEnvironment(env) });
+    const passOn = (signal: NodeJS.Signals): void => {
+      child.kill(signal);
+    };
+    const settle = (ran: boolean): void => {
+      for (const signal of PASSED_ON) process.off(signal, passOn);
+      if (!settled) resolve(ran);
+      settled = true;
+    };
+    // Until the child ends, a signal is the child's to act on (an interrupt at the terminal reaches both).
+    for (const signal of PASSED_ON) process.on(signal, passOn);
+    child.once('error', () => settle(false));
+    child.once('exit', (code, signal) => {
+      // As a shell reports a process ended by a signal.
+      if (!settled) process.exitCode = code ?? 128 + (signal ? constants.signals[signal] : 0);
+      settle(true);
+    });
+  });
+}
+
+/** Runs the command in a child if that is worth it here (relaunchWanted); whether it did. */
+export async function relaunched(args: readonly string[], entry: string | URL, stdinStat: () => Stats | undefined): Promise<boolean> {
+  const context = { env: process.env, execArgv: process.execArgv, cores: availableParallelism(), stdinStat };
+  if (!relaunchWanted(args, context)) return false;
+  return runInChild(entry instanceof URL ? fileURLToPath(entry) : entry, args, process.env);
+}
