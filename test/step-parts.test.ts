@@ -26,6 +26,14 @@ function inTwoParts(form: StepForm, p: Float64Array, split: number, m: number, a
 const stepMethods = METHODS.filter((method) => method.stepForm !== undefined);
 
 describe('step procedures in two parts', () => {
+  it('set a block of values adjusted to 1 in order, and place only the others (Holm on mostly large p-values)', () => {
+    const form = METHODS.find((method) => method.token === 'holm')?.stepForm as StepForm;
+    const p = Float64Array.from({ length: 400 }, (_, i) => (i % 5 === 0 ? 1e-6 * (i + 1) : 0.2 + i / 1000));
+    const whole = METHODS.find((method) => method.token === 'holm')?.adjust(p) as Float64Array;
+    expect(whole.filter((value) => value === 1).length).toBeGreaterThan(p.length / 2);
+    expect(bits(inTwoParts(form, p, 150, p.length, 0.05).adjusted)).toEqual(bits(whole));
+  });
+
   it('cover the step-up, step-down and single-step procedures of the registry', () => {
     expect(stepMethods.map((method) => method.token)).toEqual(['bonferroni', 'holm', 'sidak', 'holm-sidak', 'hochberg', 'bh', 'by']);
   });
@@ -38,11 +46,14 @@ describe('step procedures in two parts', () => {
         for (const m of [size, size + 17]) {
           const whole = method.adjust(p, m);
           for (const split of new Set([0, 1, Math.floor(size / 2), size - 1, size].filter((at) => at >= 0 && at <= size))) {
-            const parts = inTwoParts(method.stepForm as StepForm, p, split, m, 0.05);
-            expect(bits(parts.adjusted)).toEqual(bits(whole));
-            const rejected = Array.from(whole.keys()).filter((row) => (whole[row] as number) <= 0.05);
-            expect(parts.rejected).toBe(rejected.length);
-            expect(parts.threshold).toBe(rejected.length === 0 ? -1 : Math.max(...rejected.map((row) => p[row] as number)));
+            // At alpha 1 every value is rejected, those set to 1 in a block (adjustPart) too.
+            for (const alpha of [0.05, 1]) {
+              const parts = inTwoParts(method.stepForm as StepForm, p, split, m, alpha);
+              expect(bits(parts.adjusted)).toEqual(bits(whole));
+              const rejected = Array.from(whole.keys()).filter((row) => (whole[row] as number) <= alpha);
+              expect(parts.rejected).toBe(rejected.length);
+              expect(parts.threshold).toBe(rejected.length === 0 ? -1 : Math.max(...rejected.map((row) => p[row] as number)));
+            }
           }
         }
       }
