@@ -25,13 +25,13 @@ const noStdin = (): undefined => undefined;
 const base = { env: { FAMWISE_RELAUNCH_MIN_BYTES: '1000', FAMWISE_PARALLEL_MIN_BYTES: '1000' }, execArgv: [], cores: 2, stdinStat: noStdin };
 
 describe('relaunchWanted', () => {
-  it('is true for adjust and inspect of a large file on two cores or fewer', () => {
+  it('is true for adjust of a large file on two cores or fewer', () => {
     expect(relaunchWanted(['adjust', big, '--methods', 'bh,holm'], base)).toBe(true);
-    expect(relaunchWanted(['inspect', big], { ...base, cores: 1 })).toBe(true);
+    expect(relaunchWanted(['adjust', '-q', big], { ...base, cores: 1 })).toBe(true);
     expect(relaunchWanted(['adjust', '-q'], { ...base, stdinStat: () => statSync(big) })).toBe(true);
   });
 
-  it('is false in the child, with Node options of its own, on more cores, for a small file, another command or a large output', () => {
+  it('is false in the child, with Node options of its own, on more cores, for a small file, other commands or a large output', () => {
     expect(relaunchWanted(['adjust', big], { ...base, env: { ...base.env, FAMWISE_RELAUNCHED: '1' } })).toBe(false);
     expect(relaunchWanted(['adjust', big], { ...base, execArgv: ['--inspect'] })).toBe(false);
     expect(relaunchWanted(['adjust', big], { ...base, env: { ...base.env, NODE_OPTIONS: '--max-old-space-size=4096 --inspect-brk' } })).toBe(false);
@@ -39,6 +39,8 @@ describe('relaunchWanted', () => {
     expect(relaunchWanted(['adjust', big], { ...base, cores: 4 })).toBe(false);
     expect(relaunchWanted(['adjust', small], base)).toBe(false);
     expect(relaunchWanted(['audit', big, '--adjusted-column', 'q'], base)).toBe(false);
+    // inspect reads in two threads, but gained nothing from the child.
+    expect(relaunchWanted(['inspect', big], base)).toBe(false);
     expect(relaunchWanted(['adjust', small, '-o', big], base)).toBe(false);
     expect(relaunchWanted(['adjust'], { ...base, stdinStat: () => statSync(work) })).toBe(false);
   });
@@ -138,7 +140,7 @@ describe('the command run in a child', () => {
   const relaunches = availableParallelism() <= 2;
 
   it('runs in a child started with the flag (on two cores or fewer), with the same bytes, messages and status', () => {
-    for (const args of [['adjust', 'table.csv', '--methods', 'bh,holm'], ['adjust', 'table.csv', '--methods', 'bh', '-o', 'out.csv', '--summary', '-'], ['inspect', 'table.csv']]) {
+    for (const args of [['adjust', 'table.csv', '--methods', 'bh,holm'], ['adjust', 'table.csv', '--methods', 'bh', '-o', 'out.csv', '--summary', '-'], ['adjust', 'table.csv', '--format', 'jsonl', '--family', 'gene']]) {
       const child = run(args, true);
       const here = run(args, false);
       expect(child.starts.length).toBe(relaunches ? 2 : 1);
