@@ -4,9 +4,10 @@
 // the command's. The CLI runs compare the child's work with this process's
 // byte for byte.
 import { spawn, spawnSync } from 'node:child_process';
-import { closeSync, openSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
 import { childEnvironment, relaunchWanted, runInChild } from '../dist/cli/relaunch.js';
 import { CLI } from './helpers/cli.js';
@@ -45,6 +46,15 @@ describe('relaunchWanted', () => {
     expect(relaunchWanted(['adjust'], { ...base, stdinStat: () => statSync(work) })).toBe(false);
   });
 
+  it('is false for a gzip file (read in one thread), recognised by its content', () => {
+    const gz = join(work, 'big.csv.gz');
+    writeFileSync(gz, Buffer.concat([Buffer.from([0x1f, 0x8b]), Buffer.alloc(4000, 1)]));
+    expect(relaunchWanted(['adjust', gz], base)).toBe(false);
+    const named = join(work, 'plain.gz');
+    writeFileSync(named, 'p\n'.padEnd(4000, '0'));
+    expect(relaunchWanted(['adjust', named], base)).toBe(true);
+  });
+
   it('takes the larger of its own size and the size read in two parts', () => {
     expect(relaunchWanted(['adjust', big], { ...base, env: { ...base.env, FAMWISE_RELAUNCH_MIN_BYTES: '5000' } })).toBe(false);
     expect(relaunchWanted(['adjust', big], { ...base, env: { ...base.env, FAMWISE_PARALLEL_MIN_BYTES: '5000' } })).toBe(false);
@@ -65,11 +75,14 @@ describe('runInChild', () => {
   writeFileSync(
     probe,
     [
+      `import { watchParent } from ${JSON.stringify(new URL('../dist/cli/relaunch.js', import.meta.url).href)};`,
+      "import { writeFileSync } from 'node:fs';",
+      'watchParent();',
       "const [mode] = process.argv.slice(2);",
       "console.log(JSON.stringify({ execArgv: process.execArgv, certs: process.env.NODE_EXTRA_CA_CERTS ?? null, child: process.env.FAMWISE_RELAUNCHED }));",
       "if (mode === 'status') process.exit(3);",
       "if (mode === 'killed') process.kill(process.pid, 'SIGKILL');",
-      "if (mode === 'wait') { process.on('SIGTERM', () => { console.log('child got SIGTERM'); process.exit(143); }); console.log('ready'); setTimeout(() => {}, 20000); }",
+      `if (mode === 'wait') { process.on('SIGTERM', () => { writeFileSync(${JSON.stringify(join(work, 'stopped'))}, 'yes'); console.log('child got SIGTERM'); process.exit(143); }); console.log('ready'); setTimeout(() => {}, 20000); }`,
     ].join('\n'),
   );
   // A parent as famwise.mjs is one: it runs the probe in a child and ends with its status.
@@ -105,6 +118,26 @@ describe('runInChild', () => {
     running.kill('SIGTERM');
     expect(await ended).toBe(143);
     expect(out).toContain('child got SIGTERM');
+  });
+
+  it('stops the child as on SIGTERM when this process is killed (SIGKILL cannot be passed on)', async () => {
+    rmSync(join(work, 'stopped'), { force: true });
+    const running = spawn(process.execPath, [parent, 'wait'], { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    await new Promise<void>((resolve) =>
+      running.stdout.on('data', (chunk: Buffer) => {
+        out += chunk.toString();
+        if (out.includes('ready')) resolve();
+      }),
+    );
+    running.kill('SIGKILL');
+    for (let waited = 0; waited < 5000 && !existsSync(join(work, 'stopped')); waited += 50) await new Promise((resolve) => setTimeout(resolve, 50));
+    expect(existsSync(join(work, 'stopped'))).toBe(true);
+  });
+
+  it('resolves false, doing nothing, when the child cannot be started at all (thrown at once: an environment too large)', async () => {
+    expect(await runInChild(probe, [], { HUGE: 'x'.repeat(200_000) })).toBe(false);
+    expect(process.exitCode ?? 0).toBe(0);
   });
 
   it('resolves false, doing nothing, when no child can be started', async () => {
@@ -160,6 +193,21 @@ describe('the command run in a child', () => {
       expect(child.starts.length).toBe(relaunches ? 2 : 1);
       expect(child.status).toBe(0);
       expect(child.stdout.equals(run(['adjust', 'table.csv', '--methods', 'holm'], false).stdout)).toBe(true);
+    } finally {
+      closeSync(fd);
+    }
+  });
+
+  it('keeps gzip input in one process, from a file or from standard input', () => {
+    writeFileSync(join(work, 'table.csv.gz'), gzipSync(readFileSync(table)));
+    const fd = openSync(join(work, 'table.csv.gz'), 'r');
+    try {
+      for (const [args, stdin] of [[['adjust', 'table.csv.gz'], undefined], [['adjust'], fd]] as const) {
+        const result = run([...args, '--methods', 'holm'], true, stdin === undefined ? {} : { stdin });
+        expect(result.status).toBe(0);
+        expect(result.starts).toEqual([[]]);
+        expect(result.stdout.equals(run(['adjust', 'table.csv', '--methods', 'holm'], false).stdout)).toBe(true);
+      }
     } finally {
       closeSync(fd);
     }

@@ -6,9 +6,10 @@
 // bundled as command.mjs), so that the two start together.
 
 import { startEarly, stdinStat } from '../io/worker-thread.js';
-import { relaunched } from './relaunch.js';
+import { relaunched, watchParent } from './relaunch.js';
 
 const args = process.argv.slice(2);
+watchParent();
 // On two cores, a large table's command runs in a child process started with an engine flag (relaunch.ts).
 if (!(await relaunched(args, new URL(import.meta.url), stdinStat))) {
   startEarly(args);

@@ -21,7 +21,7 @@
 // connections, and Node reads every certificate of that file when it
 // starts (55 ms for the 150 of a system bundle, on the benchmark machine).
 
-import type { Stats } from 'node:fs';
+import { type Stats, closeSync, openSync, readSync } from 'node:fs';
 import { availableParallelism, constants } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { childProcess } from '../io/lazy-builtin.js';
@@ -64,8 +64,24 @@ export function relaunchWanted(args: readonly string[], context: RelaunchContext
   const { env, execArgv, cores } = context;
   if (env[CHILD] === '1' || execArgv.length > 0 || /--inspect/.test(env.NODE_OPTIONS ?? '') || cores > 2 || workerFile() === undefined) return false;
   if (args.find((arg) => !arg.startsWith('-')) !== RELAUNCHED_COMMAND) return false;
-  const size = largestInput(args, context.stdinStat);
-  return size > 0 && size >= sizeSetting(env, 'FAMWISE_RELAUNCH_MIN_BYTES', SMALLEST) && size >= smallestInParts(env);
+  const { size, path } = largestInput(args, context.stdinStat);
+  if (!(size > 0 && size >= sizeSetting(env, 'FAMWISE_RELAUNCH_MIN_BYTES', SMALLEST) && size >= smallestInParts(env))) return false;
+  // gzip is read in one thread (io/gzip.ts), which gains nothing from the flag.
+  return !startsGzip(path);
+}
+
+/** Whether the file (standard input when undefined, a regular file then) starts as gzip does; read by position, so nothing is consumed. */
+function startsGzip(path: string | undefined): boolean {
+  const head = Buffer.alloc(2);
+  let fd = 0;
+  try {
+    if (path !== undefined) fd = openSync(path, 'r');
+    return readSync(fd, head, 0, 2, 0) === 2 && head[0] === 0x1f && head[1] === 0x8b;
+  } catch {
+    return false;
+  } finally {
+    if (path !== undefined && fd !== 0) closeSync(fd);
+  }
 }
 
 /** The child's environment: this one's, marked as the child's, without the certificates file. */
@@ -81,25 +97,54 @@ export function childEnvironment(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
  */
 export function runInChild(entry: string, args: readonly string[], env: NodeJS.ProcessEnv): Promise<boolean> {
   return new Promise<boolean>((resolve) => {
-    let settled = false;
-    const child = childProcess().spawn(process.execPath, [FLAG, entry, ...args], { stdio: 'inherit', env: childEnvironment(env) });
+    let child: ReturnType<ReturnType<typeof childProcess>['spawn']>;
+    try {
+      // With a channel, closed when this process ends, however it ends: a SIGKILL, which cannot be
+      // passed on, stops the child too (watchParent).
+      child = childProcess().spawn(process.execPath, [FLAG, entry, ...args], { stdio: ['inherit', 'inherit', 'inherit', 'ipc'], env: childEnvironment(env) });
+    } catch {
+      // Some failures are thrown at once (an environment too large, a permission model that forbids child processes).
+      resolve(false);
+      return;
+    }
+    let started = false;
     const passOn = (signal: NodeJS.Signals): void => {
       child.kill(signal);
     };
-    const settle = (ran: boolean): void => {
+    const stopPassing = (): void => {
       for (const signal of PASSED_ON) process.off(signal, passOn);
-      if (!settled) resolve(ran);
-      settled = true;
     };
     // Until the child ends, a signal is the child's to act on (an interrupt at the terminal reaches both).
     for (const signal of PASSED_ON) process.on(signal, passOn);
-    child.once('error', () => settle(false));
+    child.once('spawn', () => {
+      started = true;
+    });
+    child.on('error', () => {
+      // After the start (a signal that could not be passed on) the child's exit is still to come.
+      if (started) return;
+      stopPassing();
+      resolve(false);
+    });
     child.once('exit', (code, signal) => {
+      if (!started) return;
+      stopPassing();
       // As a shell reports a process ended by a signal.
-      if (!settled) process.exitCode = code ?? 128 + (signal ? constants.signals[signal] : 0);
-      settle(true);
+      process.exitCode = code ?? 128 + (signal ? constants.signals[signal] : 0);
+      resolve(true);
     });
   });
+}
+
+/**
+ * In the child: when the process that started it ends before it (killed,
+ * say), stops as on SIGTERM (cli/main.ts: unfinished files removed), rather
+ * than finish a job nobody waits for and replace its output.
+ */
+export function watchParent(): void {
+  if (process.env[CHILD] !== '1' || process.channel === undefined) return;
+  // The channel does not keep the child alive.
+  process.channel.unref();
+  process.once('disconnect', () => process.kill(process.pid, 'SIGTERM'));
 }
 
 /** Runs the command in a child if that is worth it here (relaunchWanted); whether it did. */

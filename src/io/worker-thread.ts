@@ -71,17 +71,21 @@ export function newWorker(file: string): Worker {
 }
 
 /**
- * The size of the largest table the command line names, or of standard
- * input if it is a regular file; 0 for none, or for a command that never
- * reads a table in two parts (a guess, from the arguments alone).
+ * The largest table the command line names, or standard input if it is a
+ * regular file (path undefined): its size; 0 for none, or for a command
+ * that never reads a table in two parts (a guess, from the arguments alone).
  */
-export function largestInput(args: readonly string[], stdinStat: () => Stats | undefined): number {
+export function largestInput(args: readonly string[], stdinStat: () => Stats | undefined): { readonly size: number; readonly path?: string | undefined } {
   const at = args.findIndex((arg) => !arg.startsWith('-'));
-  if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return 0;
+  if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return { size: 0 };
   const rest = args.slice(at + 1);
   const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
-  const sizes = [...paths.map((path) => fileSize(() => statSync(path))), fileSize(stdinStat)];
-  return Math.max(...sizes);
+  let largest: { size: number; path?: string } = { size: fileSize(stdinStat) };
+  for (const path of paths) {
+    const size = fileSize(() => statSync(path));
+    if (size > largest.size) largest = { size, path };
+  }
+  return largest;
 }
 
 function fileSize(stat: () => Stats | undefined): number {
@@ -95,7 +99,7 @@ function fileSize(stat: () => Stats | undefined): number {
 
 /** Whether the command line looks like one that will read a table in two parts (a guess, from the arguments alone). */
 export function looksParted(args: readonly string[], stdinStat: () => Stats | undefined): boolean {
-  const size = largestInput(args, stdinStat);
+  const { size } = largestInput(args, stdinStat);
   return size > 0 && size >= smallestInParts();
 }
 
