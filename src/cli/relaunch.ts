@@ -19,7 +19,7 @@
 //
 // The child's environment lacks NODE_EXTRA_CA_CERTS: famwise opens no
 // connections, and Node reads every certificate of that file when it
-// starts (55 ms for the 150 of a system bundle, on the benchmark machine).
+// starts (55 ms for the 144 of the system bundle, on the benchmark machine).
 
 import { type Stats, closeSync, openSync, readSync } from 'node:fs';
 import { availableParallelism, constants } from 'node:os';
@@ -55,10 +55,10 @@ export interface RelaunchContext {
 }
 
 /**
- * Whether to run the command in a child: adjust of a table large enough,
- * to be read in two parts, on two cores or fewer, unless this is the child, or Node was
- * started with options of its own, which a child would not have, or with a
- * debugger in NODE_OPTIONS, which a child would start again.
+ * Whether to run the command in a child: adjust of a table large enough, to
+ * be read in two parts, on two cores or fewer; not in the child itself, nor
+ * when Node was started with options of its own (which a child would not
+ * have) or with a debugger in NODE_OPTIONS (which a child would start again).
  */
 export function relaunchWanted(args: readonly string[], context: RelaunchContext): boolean {
   const { env, execArgv, cores } = context;
