@@ -256,6 +256,22 @@ describe('writing in two parts', () => {
     sameBothWays(['inspect', plain, '--family', 'nonesuch']);
   });
 
+  it('reports a full disk as a full disk, not as a write to a stream already destroyed, to a device or to standard output', () => {
+    const name = write('full-disk.csv', table('id,p\n', 3000, (i) => `r${i},${p()}\n`));
+    for (const args of [['adjust', name, '-q', '-o', '/dev/full'], ['adjust', name, '-q']]) {
+      for (const minimum of ['0', ONE_THREAD]) {
+        const stdout = args.includes('-o') ? 'pipe' : openSync('/dev/full', 'w');
+        try {
+          const result = spawnSync(process.execPath, [CLI, ...args], { cwd: work, env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: minimum }, stdio: ['pipe', stdout, 'pipe'] });
+          expect(result.status).toBe(1);
+          expect(result.stderr.toString()).toMatch(/^famwise: ENOSPC: no space left on device/);
+        } finally {
+          if (typeof stdout === 'number') closeSync(stdout);
+        }
+      }
+    }
+  });
+
   it('writes in one thread when no temporary file can be made (TMPDIR missing)', () => {
     const name = write('no-temp.csv', table('id,p\n', 3000, (i) => `r${i},${p()}\n`));
     const args = [CLI, 'adjust', name, '-q'];

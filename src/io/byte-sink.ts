@@ -203,12 +203,27 @@ export class ByteSink {
    * stream is done with the block, which can then be filled again.
    */
   async writeReusable(block: Buffer): Promise<void> {
-    if (this.failure) throw this.failure;
+    this.throwIfFailed();
     await this.flush(true);
     this.written += block.length;
     await new Promise<void>((resolve, reject) => {
-      this.stream.write(block, (error?: Error | null) => (error ? reject(error) : resolve()));
+      this.stream.write(block, (error?: Error | null) => (error ? reject(this.firstError() ?? error) : resolve()));
     });
+  }
+
+  /**
+   * The stream's own error, if it has failed. A stream that fails is
+   * destroyed at once but tells its 'error' a moment later: a write in
+   * between fails only with "write after a stream was destroyed", which
+   * would hide the reason (a full disk, say).
+   */
+  private firstError(): Error | undefined {
+    return this.failure ?? ((this.stream.errored as Error | null) || undefined);
+  }
+
+  private throwIfFailed(): void {
+    const failure = this.firstError();
+    if (failure) throw failure;
   }
 
   /** Writes what is gathered; resolves once the stream has written everything it was given. */
@@ -218,7 +233,7 @@ export class ByteSink {
 
   /** Writes what is gathered once a block is full (or always, with force). */
   async flush(force = false): Promise<void> {
-    if (this.failure) throw this.failure;
+    this.throwIfFailed();
     if (force && this.size > 0) this.nextBlock(0);
     for (const block of this.full.splice(0)) {
       this.stream.write(block);
