@@ -24,6 +24,7 @@
 import { type Stats, closeSync, openSync, readSync } from 'node:fs';
 import { availableParallelism, constants } from 'node:os';
 import { fileURLToPath } from 'node:url';
+import { isGzip } from '../io/gzip.js';
 import { childProcess } from '../io/lazy-builtin.js';
 import { largestInput, sizeSetting, smallestInParts, workerFile } from '../io/worker-thread.js';
 
@@ -76,7 +77,7 @@ function startsGzip(path: string | undefined): boolean {
   let fd = 0;
   try {
     if (path !== undefined) fd = openSync(path, 'r');
-    return readSync(fd, head, 0, 2, 0) === 2 && head[0] === 0x1f && head[1] === 0x8b;
+    return readSync(fd, head, 0, 2, 0) === 2 && isGzip(head);
   } catch {
     return false;
   } finally {
