@@ -12,7 +12,7 @@ import { spawnSync } from 'node:child_process';
 import { appendFileSync, closeSync, openSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { afterAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it, vi } from 'vitest';
 import { bufferSource, fileSource, rangeSource } from '../dist/io/source.js';
 import { inParts } from '../dist/io/parts.js';
 import { readTable } from '../dist/io/read-table.js';
@@ -388,5 +388,123 @@ describe('writing the second part in place', () => {
   it('gives the file of one thread when the middle of the input is the start of a record', () => {
     const name = write('even.csv', table('names,p_val\n', 3999, (i) => `r${String(i).padStart(4, '0')},${(0.001 + ((i * 7) % 997) / 1000).toFixed(3)}\n`));
     sameFileBothWays(['adjust', name, '--p-column', 'p_val', '--methods', 'bh,holm', '-q'], 'even');
+  });
+});
+
+// A progress line (standard error a terminal) once hid the descriptor, so that every byte passed
+// through the chunks it counts, and a large table at the terminal was read and written in one
+// thread. Now each thread's scan counts into shared memory (InputSource.counts, PassTally).
+describe('a progress line, with both passes in two parts', () => {
+  it('counts the bytes and lines of both threads\' parts, which add up to the whole, in both passes', async () => {
+    const { progressLine } = await import('../dist/cli/progress.js');
+    const { writeTableInParts } = await import('../dist/io/parallel-write.js');
+    const { writeTable } = await import('../dist/io/write-table.js');
+    const { plannedColumns } = await import('../dist/io/column-plan.js');
+    const { ByteSink } = await import('../dist/io/byte-sink.js');
+    const { Writable } = await import('node:stream');
+    const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+    process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
+    try {
+      await countedBoth(write('watched.csv', table('id,note,p\n', 6000, (i) => `r${i},n,${p()}\n${i % 9 === 0 ? '\n' : ''}`)), true);
+      // A p-value to remark on in the second half (below the smallest double): the worker's reading
+      // is not taken, and this thread reads on, and counts, the second half itself.
+      await countedBoth(write('watched-remark.csv', table('id,note,p\n', 6000, (i) => `r${i},n,${i === 5000 ? '1e-400' : p()}\n`)), false);
+    } finally {
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
+    }
+
+    async function countedBoth(name: string, workerRead: boolean): Promise<void> {
+      const path = join(work, name);
+      const bytes = readFileSync(path);
+      const lines = bytes.toString().split('\n').length - 1;
+      const watched = progressLine(() => {}).watch(fileSource(path));
+      const passes: (readonly [Float64Array, Float64Array])[] = [];
+      const tally = watched.tally as NonNullable<typeof watched.tally>;
+      const firstOnly: boolean[] = [];
+      const source = {
+        ...watched,
+        tally: {
+          begin: () => passes[passes.push(tally.begin()) - 1] as readonly [Float64Array, Float64Array],
+          end: (only = false) => {
+            firstOnly.push(only);
+            tally.end(only);
+          },
+        },
+      };
+      const read = await readTable(source, { sortP: true });
+      expect(read.split).toBeDefined();
+      const plan = { alpha: 0.05, decimalComma: false, columns: [{ name: 'q', kind: 'number' as const, values: read.p }] };
+      const collect = (): { sink: InstanceType<typeof ByteSink>; bytes: () => Buffer } => {
+        const pieces: Buffer[] = [];
+        const stream = new Writable({
+          write(chunk, _encoding, done) {
+            pieces.push(Buffer.from(chunk));
+            done();
+          },
+        });
+        return { sink: new ByteSink(stream), bytes: () => Buffer.concat(pieces) };
+      };
+      const inParts = collect();
+      await writeTableInParts(source, read.shape, plan, { delimiter: 0x2c }, inParts.sink, read.p.length, read.split as NonNullable<typeof read.split>);
+      await inParts.sink.flush(true);
+      expect(passes).toHaveLength(2);
+      // In the first pass, this thread read on through the second half only when it had to.
+      expect(firstOnly).toEqual([!workerRead, false]);
+      for (const [pass, [first, second]] of passes.entries()) {
+        // Each thread counted its own part, and the two add up to the table (or this thread's alone does).
+        expect(second[0]).toBeGreaterThan(0);
+        const counted = firstOnly[pass] ? [0, 0] : [second[0] as number, second[1] as number];
+        expect((first[0] as number) + (counted[0] as number)).toBe(bytes.length);
+        expect((first[1] as number) + (counted[1] as number)).toBe(lines);
+      }
+      // And the table written is one thread's.
+      const oneThread = collect();
+      await writeTable(fileSource(path), read.shape, plannedColumns(plan), { delimiter: 0x2c }, oneThread.sink, read.p.length);
+      await oneThread.sink.flush(true);
+      expect(inParts.bytes().equals(oneThread.bytes())).toBe(true);
+    }
+  });
+
+  // util-linux's script(1) gives the command a terminal (Debian has it in every system: bsdutils is essential).
+  it.runIf(process.platform === 'linux')('gives the file of a run without a terminal, at a terminal, with the summary on a clean line', () => {
+    const name = write('at-terminal.csv', table('id,p\n', 20000, (i) => `r${i},${p()}\n`));
+    const command = `'${process.execPath}' '${CLI}' adjust ${name} --methods bh,holm -o at-terminal.out`;
+    const atTerminal = spawnSync('script', ['-qec', command, '/dev/null'], { cwd: work, encoding: 'utf8', env: { ...process.env, FAMWISE_PARALLEL_MIN_BYTES: '0', CI: '', TERM: 'xterm' } });
+    expect(atTerminal.status).toBe(0);
+    // The summary, and nothing of a progress line before it (a run shorter than a second draws none).
+    expect(atTerminal.stdout).toMatch(/^family +method/);
+    const single = run(['adjust', name, '--methods', 'bh,holm', '-o', 'no-terminal.out', '-q'], ONE_THREAD);
+    expect(single.status).toBe(0);
+    expect(readFileSync(join(work, 'at-terminal.out')).equals(readFileSync(join(work, 'no-terminal.out')))).toBe(true);
+  });
+});
+
+describe('the worker, once the table is written', () => {
+  it('is ended when it has no job (stopWorker), and a later job starts another', async () => {
+    const { stopWorker } = await import('../dist/io/parts.js');
+    const { Worker } = await import('node:worker_threads');
+    const terminate = vi.spyOn(Worker.prototype, 'terminate');
+    const path = join(work, write('stopped.csv', table('id,p\n', 4000, (i) => `r${i},${p()}\n`)));
+    const before = process.env.FAMWISE_PARALLEL_MIN_BYTES;
+    process.env.FAMWISE_PARALLEL_MIN_BYTES = '0';
+    try {
+      const first = await readTable(fileSource(path), {});
+      expect(first.split).toBeDefined();
+      stopWorker();
+      expect(terminate).toHaveBeenCalledTimes(1);
+      // Nothing left to end.
+      stopWorker();
+      expect(terminate).toHaveBeenCalledTimes(1);
+      const again = await readTable(fileSource(path), {});
+      expect(again.split).toEqual(first.split);
+      expect(Array.from(again.p)).toEqual(Array.from(first.p));
+      stopWorker();
+      expect(terminate).toHaveBeenCalledTimes(2);
+    } finally {
+      terminate.mockRestore();
+      if (before === undefined) delete process.env.FAMWISE_PARALLEL_MIN_BYTES;
+      else process.env.FAMWISE_PARALLEL_MIN_BYTES = before;
+    }
   });
 });

@@ -1,8 +1,8 @@
 // The progress line: when it is drawn at all, what it says, and that it is
 // erased. Time is a counter the test moves, never the clock.
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { progressLine, progressText, showsProgress, timeLeft } from '../src/cli/progress.js';
-import type { InputSource } from '../src/io/source.js';
+import type { InputSource, PassTally } from '../src/io/source.js';
 import { famwise } from './helpers/cli.js';
 
 describe('whether to draw it', () => {
@@ -109,11 +109,53 @@ describe('drawing', () => {
 });
 
 describe('with a table read by position', () => {
-  it('hides the descriptor, so that the table is read in one thread, through the counted chunks', () => {
+  it('keeps the descriptor, so that a large table is still read in two threads', () => {
     const source: InputSource = { name: 't.csv', extension: 'csv', size: 10, descriptor: () => 3, chunks: async function* () {} };
     const watched = progressLine(() => {}).watch(source);
-    expect(source.descriptor).toBeDefined();
-    expect(watched.descriptor).toBeUndefined();
+    expect(watched.descriptor).toBe(source.descriptor);
     expect(watched.size).toBe(10);
+    expect(watched.tally).toBeDefined();
+  });
+
+  it('draws a pass in two parts from the sums of both parts\' counts, on a timer, and erases it when the pass ends', () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+    try {
+      const clock = { now: 0 };
+      const written: string[] = [];
+      const source = progressLine((text) => written.push(text), () => clock.now).watch({ name: 't.csv', extension: 'csv', size: 1000, descriptor: () => 3, chunks: async function* () {} });
+      const tally = source.tally as PassTally;
+      const tick = (ms: number): void => {
+        clock.now += ms;
+        vi.advanceTimersByTime(ms);
+      };
+      // The first pass: the two parts' [bytes, lines], in shared memory (another thread writes the second).
+      const [first, second] = tally.begin();
+      expect(first.buffer).toBeInstanceOf(SharedArrayBuffer);
+      expect(second.buffer).toBe(first.buffer);
+      first.set([100, 10]);
+      second.set([150, 15]);
+      tick(750);
+      // Nothing before a second.
+      expect(written).toEqual([]);
+      tick(250);
+      // 250 of 1000 bytes in 1 s: 3 s for this pass's rest and 4 s for the second pass.
+      expect(written).toEqual(['\r\x1b[Kfamwise: reading: 25 lines, about 7 s left']);
+      first.set([500, 50]);
+      second.set([500, 51]);
+      tally.end();
+      // The last count is the pass's total; the line is erased, and the timer stops.
+      expect(written.at(-1)).toBe('\r\x1b[K');
+      tick(1000);
+      expect(written.length).toBe(2);
+      const [writingFirst, writingSecond] = tally.begin();
+      writingFirst.set([200, 20]);
+      writingSecond.set([300, 30]);
+      tick(500);
+      expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 50 of 101 lines, about 1 s left');
+      tally.end();
+      expect(written.at(-1)).toBe('\r\x1b[K');
+    } finally {
+      vi.useRealTimers();
+    }
   });
 });

@@ -95,3 +95,42 @@ describe('peek', () => {
     }
   });
 });
+
+describe('counts for a progress line', () => {
+  it('keeps the bytes and lines scanned in the source\'s counts, block by block, ending at the whole', async () => {
+    const random = seededRandom(7);
+    // Over 3 MB: several blocks, a record across each join, a quoted field with a line break.
+    const rows = Array.from({ length: 120_000 }, (_, i) => (i === 5000 ? `"a\nb",${random()}` : `r${i},${random()}`));
+    const text = `name,p\n${rows.join('\n')}\n`;
+    const counts = new Float64Array(2);
+    const seen: number[] = [];
+    await scanInput({ ...bufferChunks(Buffer.from(text), 1 << 18), counts }, { delimiter: 0x2c, loneCrEndsLine: false }, {
+      record() {},
+      async afterBlock() {
+        seen.push(counts[0] as number);
+      },
+    });
+    expect(counts[0]).toBe(Buffer.byteLength(text));
+    // Lines, not records: the quoted field's line break counts.
+    expect(counts[1]).toBe(120_002);
+    expect(seen.length).toBeGreaterThan(3);
+    expect(seen.every((bytes, k) => k === 0 || bytes > (seen[k - 1] as number))).toBe(true);
+  });
+
+  it('counts from the line the scan starts on (a second part)', async () => {
+    const counts = new Float64Array(2);
+    await scanInput({ ...bufferSource(Buffer.from('0.1\n0.2\n0.3\n'), 't'), counts }, { delimiter: 0x2c, loneCrEndsLine: false, firstLine: 40 }, { record() {} });
+    expect(Array.from(counts)).toEqual([12, 3]);
+  });
+});
+
+/** A source of bytes given in chunks of `size`. */
+function bufferChunks(bytes: Buffer, size: number) {
+  return {
+    name: 't.csv',
+    extension: 'csv',
+    async *chunks() {
+      for (let at = 0; at < bytes.length; at += size) yield bytes.subarray(at, at + size);
+    },
+  };
+}

@@ -39,7 +39,7 @@ import { type OutputColumn, type OutputFormat, writeTable } from '../io/write-ta
 import { type ColumnPlan, type ColumnsPlan, plannedColumns } from '../io/column-plan.js';
 import { type OutputInPlace, firstPartCellBytes, writeTableInParts } from '../io/parallel-write.js';
 import { type FirstPartMeasures, adjustInTwoThreads } from '../io/parallel-adjust.js';
-import { inParts } from '../io/parts.js';
+import { inParts, stopWorker } from '../io/parts.js';
 import { DEFAULT_PI0_SETTINGS, PI0_ESTIMATORS, type Pi0Settings } from '../estimators/pi0.js';
 import { METHODS, METHOD_TOKENS, type Method, type MethodSettings, WEIGHTED_TOKENS, columnNames, findMethod, likelyMethod } from '../methods.js';
 import { type Summary, familyLabel, familyRecord, pi0Warnings, summarize, summaryText } from '../summary.js';
@@ -318,6 +318,8 @@ async function writeOutputs(
     files.pop();
     tableFile.abort();
   }
+  // Nothing is left for the worker: its engine is torn down while the files are installed.
+  stopWorker();
   try {
     if (targets.summary !== undefined) {
       const summaryFile = openOutput(targets.summary);

@@ -9,7 +9,7 @@
 // The estimate assumes the rest goes at the speed so far, and that the
 // second pass takes as long as the first (both read every byte once).
 
-import type { InputSource } from '../io/source.js';
+import type { InputSource, PassTally } from '../io/source.js';
 
 const LF = 0x0a;
 /** Nothing is shown before this many milliseconds. */
@@ -91,19 +91,69 @@ export function progressLine(write: (text: string) => void, now: () => number = 
     write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
   };
 
+  const endPass = (): void => {
+    if (pass === 0) {
+      totalLines = lines;
+      totalBytes = bytes;
+    }
+    pass++;
+  };
+  // Messages (an error, the summary) start on a clean line.
+  const erase = (): void => {
+    if (drawn) write(ERASE);
+    drawn = false;
+  };
+
+  /**
+   * A pass read by position in two parts (io/read-table.ts, io/parallel-write.ts), which chunks()
+   * does not see: each thread's scan counts into its own pair of shared numbers, and the line is
+   * drawn from their sums on a timer.
+   */
+  let timer: ReturnType<typeof setInterval> | undefined;
+  let parts: readonly [Float64Array, Float64Array] | undefined;
+  let inOrder = false;
+  const countParts = (firstOnly = false): void => {
+    if (parts === undefined || inOrder) return;
+    const [first, second] = parts;
+    bytes = (first[0] as number) + (firstOnly ? 0 : (second[0] as number));
+    lines = (first[1] as number) + (firstOnly ? 0 : (second[1] as number));
+  };
+  const tally: PassTally = {
+    begin() {
+      const shared = new Float64Array(new SharedArrayBuffer(4 * Float64Array.BYTES_PER_ELEMENT));
+      parts = [shared.subarray(0, 2), shared.subarray(2, 4)];
+      lines = 0;
+      bytes = 0;
+      passStarted = now();
+      timer = setInterval(() => {
+        countParts();
+        if (!inOrder) draw();
+      }, REDRAW);
+      // The timer never keeps the process alive.
+      timer.unref();
+      return parts;
+    },
+    end(firstOnly = false) {
+      clearInterval(timer);
+      countParts(firstOnly);
+      parts = undefined;
+      endPass();
+      erase();
+    },
+  };
+
   return {
     watch(source) {
       totalBytes = source.size;
-      // Without the descriptor: every byte must pass through chunks() to be counted, so a
-      // watched table is read in one thread (io/parts.ts reads by position, unseen here).
-      const { descriptor: _readByPosition, ...inOrder } = source;
       return {
-        ...inOrder,
+        ...source,
+        tally,
         async *chunks() {
           // A first look at the start of the table (which stops early) counts as no pass.
           lines = 0;
           bytes = 0;
           passStarted = now();
+          inOrder = true;
           try {
             for await (const chunk of source.chunks()) {
               bytes += chunk.length;
@@ -111,15 +161,10 @@ export function progressLine(write: (text: string) => void, now: () => number = 
               draw();
               yield chunk;
             }
-            if (pass === 0) {
-              totalLines = lines;
-              totalBytes = bytes;
-            }
-            pass++;
+            endPass();
           } finally {
-            // Messages (an error, the summary) start on a clean line.
-            if (drawn) write(ERASE);
-            drawn = false;
+            inOrder = false;
+            erase();
           }
         },
       };

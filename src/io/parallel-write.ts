@@ -97,105 +97,113 @@ export async function writeTableInParts(
   split: SplitPoint,
   inPlace?: OutputInPlace,
 ): Promise<void> {
-  const fd = (source.descriptor as () => number)();
-  const partPlan = planFrom(plan, split.row);
-  /** Writes the part from the split on in this thread, after the first. */
-  const writeSecondHere = (): Promise<number> =>
-    writeTable(rangeSource(source.name, fd, split.offset, contentEnd(source)), shape, plannedColumns(partPlan), format, sink, rows - split.row, { firstLine: split.line });
-  const writeFirstHere = (): Promise<number> => writeTable(rangeSource(source.name, fd, 0, split.offset), shape, plannedColumns(plan), format, sink, split.row, {});
-  const job = (outFd: number, at: number): WritePartJob => ({
-    kind: 'write',
-    name: source.name,
-    fd,
-    start: split.offset,
-    // To wherever the file ends, as one thread reads it (a file that grew is then noticed), or
-    // where a bounded source ends.
-    end: contentEnd(source),
-    line: split.line,
-    rows: rows - split.row,
-    shape,
-    delimiter: format.delimiter,
-    plan: partPlan,
-    outFd,
-    at,
-  });
+  // A progress line counts what each thread has scanned.
+  const counts = source.tally?.begin();
+  try {
+    const fd = (source.descriptor as () => number)();
+    const partPlan = planFrom(plan, split.row);
+    /** Writes the part from the split on in this thread, after the first. */
+    const writeSecondHere = (): Promise<number> =>
+      writeTable(rangeSource(source.name, fd, split.offset, contentEnd(source)), shape, plannedColumns(partPlan), format, sink, rows - split.row, { firstLine: split.line });
+    const firstPart = { ...rangeSource(source.name, fd, 0, split.offset), ...(counts ? { counts: counts[0] } : {}) };
+    const writeFirstHere = (): Promise<number> => writeTable(firstPart, shape, plannedColumns(plan), format, sink, split.row, {});
+    const job = (outFd: number, at: number): WritePartJob => ({
+      kind: 'write',
+      name: source.name,
+      fd,
+      start: split.offset,
+      // To wherever the file ends, as one thread reads it (a file that grew is then noticed), or
+      // where a bounded source ends.
+      end: contentEnd(source),
+      line: split.line,
+      counts: counts?.[1],
+      rows: rows - split.row,
+      shape,
+      delimiter: format.delimiter,
+      plan: partPlan,
+      outFd,
+      at,
+    });
 
-  // Where the second part's output starts, when it can be told before the first is written.
-  const at = inPlace && inPlace.firstRows === split.row ? firstPartOutputBytes(shape, plannedColumns(plan), format, split.offset, inPlace.firstCellBytes) : undefined;
-  // The sort's working arrays and the procedures' own are garbage by now: given back before the
-  // writing, once the worker has its part (it need not wait for this thread's collection).
-  if (inPlace && at !== undefined) {
-    const second = startPart<{ written: number; rows: number }>(job(inPlace.fd, at), movableBuffers(partPlan));
+    // Where the second part's output starts, when it can be told before the first is written.
+    const at = inPlace && inPlace.firstRows === split.row ? firstPartOutputBytes(shape, plannedColumns(plan), format, split.offset, inPlace.firstCellBytes) : undefined;
+    // The sort's working arrays and the procedures' own are garbage by now: given back before the
+    // writing, once the worker has its part (it need not wait for this thread's collection).
+    if (inPlace && at !== undefined) {
+      const second = startPart<{ written: number; rows: number }>(job(inPlace.fd, at), movableBuffers(partPlan));
+      releaseMemory();
+      let first: number;
+      try {
+        first = await writeFirstHere();
+      } catch (error) {
+        // The output is given up, its descriptor closed: not while the worker may still write to it.
+        await second.giveUp();
+        throw error;
+      }
+      let later: number | undefined;
+      try {
+        ({ rows: later } = await second.result);
+      } catch (error) {
+        if (error instanceof DataError) throw error;
+      }
+      if (later !== undefined && sink.written === at) {
+        checkRowCount(source, first + later, rows);
+        return;
+      }
+      await sink.settled();
+      if (sink.written === at) {
+        // The worker could not do its part: this thread writes it after the first, over what the worker wrote.
+        ftruncateSync(inPlace.fd, at);
+        checkRowCount(source, first + (await writeSecondHere()), rows);
+        return;
+      }
+      // The first part did not end where it was to (which the tests rule out), and the two parts
+      // may overlap: this thread writes the whole file again, from its start.
+      ftruncateSync(inPlace.fd, 0);
+      const again = createWriteStream('', { fd: inPlace.fd, start: 0, autoClose: false });
+      await writeTable(source, shape, plannedColumns(plan), format, new ByteSink(again), rows);
+      again.end();
+      await finished(again);
+      return;
+    }
+
+    let temporary: FileHandle;
+    try {
+      temporary = await temporaryFile();
+    } catch {
+      // No temporary file to be had (TMPDIR missing or full): one thread, which needs none.
+      releaseMemory();
+      await writeTable(source, shape, plannedColumns(plan), format, sink, rows);
+      return;
+    }
+    const second = startPart<{ written: number; rows: number }>(job(temporary.fd, 0), movableBuffers(partPlan));
     releaseMemory();
-    let first: number;
+    // The temporary file is closed only once the worker is known to be done with it: closing it
+    // while the worker may still write could hand its descriptor to another file. Otherwise it
+    // stays open (unlinked) until the process exits.
+    let workerDone = false;
     try {
-      first = await writeFirstHere();
-    } catch (error) {
-      // The output is given up, its descriptor closed: not while the worker may still write to it.
-      await second.giveUp();
-      throw error;
-    }
-    let later: number | undefined;
-    try {
-      ({ rows: later } = await second.result);
-    } catch (error) {
-      if (error instanceof DataError) throw error;
-    }
-    if (later !== undefined && sink.written === at) {
+      const first = await writeFirstHere();
+      let written: number;
+      let later: number;
+      try {
+        ({ written, rows: later } = await second.result);
+        workerDone = true;
+      } catch (error) {
+        if (error instanceof DataError) throw error;
+        // The worker could not do its part (it could not start, its temporary file was full):
+        // this thread writes it instead.
+        checkRowCount(source, first + (await writeSecondHere()), rows);
+        return;
+      }
+      // The second part is not copied after a first part that came out short.
       checkRowCount(source, first + later, rows);
-      return;
+      await copyPart(temporary.fd, written, sink);
+    } finally {
+      second.stop();
+      if (workerDone) await temporary.close();
     }
-    await sink.settled();
-    if (sink.written === at) {
-      // The worker could not do its part: this thread writes it after the first, over what the worker wrote.
-      ftruncateSync(inPlace.fd, at);
-      checkRowCount(source, first + (await writeSecondHere()), rows);
-      return;
-    }
-    // The first part did not end where it was to (which the tests rule out), and the two parts
-    // may overlap: this thread writes the whole file again, from its start.
-    ftruncateSync(inPlace.fd, 0);
-    const again = createWriteStream('', { fd: inPlace.fd, start: 0, autoClose: false });
-    await writeTable(source, shape, plannedColumns(plan), format, new ByteSink(again), rows);
-    again.end();
-    await finished(again);
-    return;
-  }
-
-  let temporary: FileHandle;
-  try {
-    temporary = await temporaryFile();
-  } catch {
-    // No temporary file to be had (TMPDIR missing or full): one thread, which needs none.
-    releaseMemory();
-    await writeTable(source, shape, plannedColumns(plan), format, sink, rows);
-    return;
-  }
-  const second = startPart<{ written: number; rows: number }>(job(temporary.fd, 0), movableBuffers(partPlan));
-  releaseMemory();
-  // The temporary file is closed only once the worker is known to be done with it: closing it
-  // while the worker may still write could hand its descriptor to another file. Otherwise it
-  // stays open (unlinked) until the process exits.
-  let workerDone = false;
-  try {
-    const first = await writeFirstHere();
-    let written: number;
-    let later: number;
-    try {
-      ({ written, rows: later } = await second.result);
-      workerDone = true;
-    } catch (error) {
-      if (error instanceof DataError) throw error;
-      // The worker could not do its part (it could not start, its temporary file was full):
-      // this thread writes it instead.
-      checkRowCount(source, first + (await writeSecondHere()), rows);
-      return;
-    }
-    // The second part is not copied after a first part that came out short.
-    checkRowCount(source, first + later, rows);
-    await copyPart(temporary.fd, written, sink);
   } finally {
-    second.stop();
-    if (workerDone) await temporary.close();
+    if (counts) source.tally?.end();
   }
 }

@@ -23,6 +23,7 @@ function partSource(job: WritePartJob | ReadPartJob, id: number): InputSource {
   const source = rangeSource(job.name, job.fd, job.start, job.end);
   return {
     ...source,
+    ...(job.counts ? { counts: job.counts } : {}),
     async *chunks() {
       for await (const chunk of source.chunks()) {
         if (cancelled.has(id)) throw new Error('given up');

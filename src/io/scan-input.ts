@@ -69,6 +69,8 @@ export async function peek(source: InputSource, want: number): Promise<Buffer> {
 
 export async function scanInput(source: InputSource, dialect: Dialect & ScanOptions, handlers: ScanHandlers): Promise<void> {
   const scanner = new RecordScanner(dialect.delimiter, source.name, dialect.loneCrEndsLine, dialect);
+  const { counts } = source;
+  const firstLine = dialect.firstLine ?? 1;
   let carry: Buffer = Buffer.alloc(0);
   let pending: Buffer[] = [];
   let pendingSize = 0;
@@ -103,6 +105,10 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     const consumed = scanner.scan(block, from, atEnd, handlers.record, handlers.column);
     carry = block.subarray(consumed);
     carryOffset = blockOffset + consumed;
+    if (counts) {
+      counts[0] = carryOffset;
+      counts[1] = scanner.line - firstLine;
+    }
     if (handlers.afterBlock) await handlers.afterBlock();
   };
   let fed = 0;

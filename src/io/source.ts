@@ -26,7 +26,28 @@ export interface InputSource {
    * it would), rather than wherever the file ends when it is read.
    */
   readonly bounded?: boolean;
+  /**
+   * Where a scan of this source (scan-input.ts) keeps count of what it has
+   * done, after each block: [bytes, lines] from the source's start, in
+   * memory another thread may read (a progress line watching a table read
+   * in two parts: PassTally).
+   */
+  readonly counts?: Float64Array;
+  /** Set by a progress line (cli/progress.ts): told of each pass made in two parts by position, which chunks() does not see. */
+  readonly tally?: PassTally;
   chunks(): AsyncIterable<Buffer>;
+}
+
+/**
+ * Counts for a progress line of a pass over a source read by position in
+ * two parts, one per thread: unlike chunks(), which counts what passes
+ * through it, the parts are read where chunks() cannot see them.
+ */
+export interface PassTally {
+  /** A pass begins: the counts ([bytes, lines], shared memory) for the first part's scan and the second's, 0 so far. */
+  begin(): readonly [Float64Array, Float64Array];
+  /** The pass has ended, however it ended; with firstOnly, the first part's scan went on through the second (the second's count is not the table's). */
+  end(firstOnly?: boolean): void;
 }
 
 /** Where a source read by position ends: its size when bounded, else wherever the file ends (Infinity). */
