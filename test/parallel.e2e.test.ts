@@ -421,15 +421,15 @@ describe('a progress line, with both passes in two parts', () => {
       const watched = progressLine(() => {}).watch(fileSource(path));
       const passes: (readonly [Float64Array, Float64Array])[] = [];
       const tally = watched.tally as NonNullable<typeof watched.tally>;
-      const firstOnly: boolean[] = [];
+      const firstEnds: number[] = [];
       const source = {
         ...watched,
         tally: {
-          begin: () => passes[passes.push(tally.begin()) - 1] as readonly [Float64Array, Float64Array],
-          end: (only = false) => {
-            firstOnly.push(only);
-            tally.end(only);
+          begin: (firstEnd: number) => {
+            firstEnds.push(firstEnd);
+            return passes[passes.push(tally.begin(firstEnd)) - 1] as readonly [Float64Array, Float64Array];
           },
+          end: () => tally.end(),
         },
       };
       const read = await readTable(source, { sortP: true });
@@ -449,14 +449,19 @@ describe('a progress line, with both passes in two parts', () => {
       await writeTableInParts(source, read.shape, plan, { delimiter: 0x2c }, inParts.sink, read.p.length, read.split as NonNullable<typeof read.split>);
       await inParts.sink.flush(true);
       expect(passes).toHaveLength(2);
-      // In the first pass, this thread read on through the second half only when it had to.
-      expect(firstOnly).toEqual([!workerRead, false]);
+      // Both passes split the table where the first part ends.
+      expect(firstEnds).toEqual([read.split?.offset, read.split?.offset]);
       for (const [pass, [first, second]] of passes.entries()) {
-        // Each thread counted its own part, and the two add up to the table (or this thread's alone does).
         expect(second[0]).toBeGreaterThan(0);
-        const counted = firstOnly[pass] ? [0, 0] : [second[0] as number, second[1] as number];
-        expect((first[0] as number) + (counted[0] as number)).toBe(bytes.length);
-        expect((first[1] as number) + (counted[1] as number)).toBe(lines);
+        if (pass === 0 && !workerRead) {
+          // This thread read on through the second half (past where its part ends): its count alone is the table's.
+          expect([first[0], first[1]]).toEqual([bytes.length, lines]);
+          continue;
+        }
+        // Each thread counted its own part, and the two add up to the table.
+        expect(first[0]).toBe(firstEnds[pass]);
+        expect((first[0] as number) + (second[0] as number)).toBe(bytes.length);
+        expect((first[1] as number) + (second[1] as number)).toBe(lines);
       }
       // And the table written is one thread's.
       const oneThread = collect();

@@ -129,7 +129,7 @@ describe('with a table read by position', () => {
         vi.advanceTimersByTime(ms);
       };
       // The first pass: the two parts' [bytes, lines], in shared memory (another thread writes the second).
-      const [first, second] = tally.begin();
+      const [first, second] = tally.begin(500);
       expect(first.buffer).toBeInstanceOf(SharedArrayBuffer);
       expect(second.buffer).toBe(first.buffer);
       first.set([100, 10]);
@@ -147,11 +147,15 @@ describe('with a table read by position', () => {
       expect(written.at(-1)).toBe('\r\x1b[K');
       tick(1000);
       expect(written.length).toBe(2);
-      const [writingFirst, writingSecond] = tally.begin();
+      const [writingFirst, writingSecond] = tally.begin(500);
       writingFirst.set([200, 20]);
       writingSecond.set([300, 30]);
       tick(500);
       expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 50 of 101 lines, about 1 s left');
+      // The first part's scan past its end (it went on through the second part itself): its count alone.
+      writingFirst.set([800, 80]);
+      tick(250);
+      expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 80 of 101 lines, about 1 s left');
       tally.end();
       expect(written.at(-1)).toBe('\r\x1b[K');
     } finally {

@@ -111,15 +111,18 @@ export function progressLine(write: (text: string) => void, now: () => number = 
    */
   let timer: ReturnType<typeof setInterval> | undefined;
   let parts: readonly [Float64Array, Float64Array] | undefined;
+  let firstPartEnd = Infinity;
   let inOrder = false;
-  const countParts = (firstOnly = false): void => {
+  const countParts = (): void => {
     if (parts === undefined || inOrder) return;
     const [first, second] = parts;
+    const firstOnly = (first[0] as number) > firstPartEnd;
     bytes = (first[0] as number) + (firstOnly ? 0 : (second[0] as number));
     lines = (first[1] as number) + (firstOnly ? 0 : (second[1] as number));
   };
   const tally: PassTally = {
-    begin() {
+    begin(firstEnd) {
+      firstPartEnd = firstEnd;
       const shared = new Float64Array(new SharedArrayBuffer(4 * Float64Array.BYTES_PER_ELEMENT));
       parts = [shared.subarray(0, 2), shared.subarray(2, 4)];
       lines = 0;
@@ -133,9 +136,9 @@ export function progressLine(write: (text: string) => void, now: () => number = 
       timer.unref();
       return parts;
     },
-    end(firstOnly = false) {
+    end() {
       clearInterval(timer);
-      countParts(firstOnly);
+      countParts();
       parts = undefined;
       endPass();
       erase();

@@ -98,7 +98,7 @@ export async function writeTableInParts(
   inPlace?: OutputInPlace,
 ): Promise<void> {
   // A progress line counts what each thread has scanned.
-  const counts = source.tally?.begin();
+  const counts = source.tally?.begin(split.offset);
   try {
     const fd = (source.descriptor as () => number)();
     const partPlan = planFrom(plan, split.row);

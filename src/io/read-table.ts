@@ -636,7 +636,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   const half = inTwoParts && inParts(source) ? lineStartPastMiddle(source) : undefined;
   let second: RunningPart<ReadPart> | undefined;
   // A progress line counts what each thread has scanned.
-  const counts = half === undefined ? undefined : source.tally?.begin();
+  const counts = half === undefined ? undefined : source.tally?.begin(half);
   const startSecondHalf = (at: number): void => {
     second = startPart<ReadPart>({ kind: 'read', name: source.name, fd: (source.descriptor as () => number)(), start: at, end: contentEnd(source), line: 1, counts: counts?.[1], options: { ...options, shape: shape as TableShape }, sort: sortParts });
   };
@@ -676,8 +676,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     });
   } finally {
     second?.stop();
-    // When this thread read on through the second half, its count is the table's.
-    if (counts) source.tally?.end(secondPart === undefined);
+    if (counts) source.tally?.end();
   }
 
   if (shape === undefined) {

@@ -44,10 +44,16 @@ export interface InputSource {
  * through it, the parts are read where chunks() cannot see them.
  */
 export interface PassTally {
-  /** A pass begins: the counts ([bytes, lines], shared memory) for the first part's scan and the second's, 0 so far. */
-  begin(): readonly [Float64Array, Float64Array];
-  /** The pass has ended, however it ended; with firstOnly, the first part's scan went on through the second (the second's count is not the table's). */
-  end(firstOnly?: boolean): void;
+  /**
+   * A pass begins: the counts ([bytes, lines], shared memory) for the first
+   * part's scan and the second's, 0 so far. The first part ends at byte
+   * firstEnd: once its scan has gone past, it went on through the second
+   * part itself (the worker's reading was not taken), and its count alone is
+   * the table's.
+   */
+  begin(firstEnd: number): readonly [Float64Array, Float64Array];
+  /** The pass has ended, however it ended. */
+  end(): void;
 }
 
 /** Where a source read by position ends: its size when bounded, else wherever the file ends (Infinity). */
