@@ -91,6 +91,11 @@ export function progressLine(write: (text: string) => void, now: () => number = 
     write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
   };
 
+  const startPass = (): void => {
+    lines = 0;
+    bytes = 0;
+    passStarted = now();
+  };
   const endPass = (): void => {
     if (pass === 0) {
       totalLines = lines;
@@ -125,9 +130,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
       firstPartEnd = firstEnd;
       const shared = new Float64Array(new SharedArrayBuffer(4 * Float64Array.BYTES_PER_ELEMENT));
       parts = [shared.subarray(0, 2), shared.subarray(2, 4)];
-      lines = 0;
-      bytes = 0;
-      passStarted = now();
+      startPass();
       timer = setInterval(() => {
         countParts();
         if (!inOrder) draw();
@@ -153,9 +156,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
         tally,
         async *chunks() {
           // A first look at the start of the table (which stops early) counts as no pass.
-          lines = 0;
-          bytes = 0;
-          passStarted = now();
+          startPass();
           inOrder = true;
           try {
             for await (const chunk of source.chunks()) {
