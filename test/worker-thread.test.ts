@@ -48,4 +48,15 @@ describe('looksParted', () => {
     expect(looksParted(['adjust'], () => statSync(work))).toBe(false);
     expect(looksParted(['adjust'], noStdin)).toBe(false);
   });
+
+  it('leaves standard input out when an argument names a file, which is read instead (unless it is -)', () => {
+    const bigStdin = () => statSync(big);
+    expect(looksParted(['adjust', small], bigStdin)).toBe(false);
+    expect(looksParted(['adjust', '--methods', 'bh', small, '-q'], bigStdin)).toBe(false);
+    expect(looksParted(['adjust', '-'], bigStdin)).toBe(true);
+    // An option's value that names no file leaves standard input in.
+    expect(looksParted(['adjust', '--p-column', 'p'], bigStdin)).toBe(true);
+    // Nor is an output file read.
+    expect(looksParted(['adjust', '-o', small], bigStdin)).toBe(true);
+  });
 });

@@ -72,28 +72,34 @@ export function newWorker(file: string): Worker {
 
 /**
  * The largest table the command line names, or standard input if it is a
- * regular file (path undefined): its size; 0 for none, or for a command
- * that never reads a table in two parts (a guess, from the arguments alone).
+ * regular file (path undefined) and no argument names a file instead (or
+ * one is "-"): its size; 0 for none, or for a command that never reads a
+ * table in two parts (a guess, from the arguments alone).
  */
 export function largestInput(args: readonly string[], stdinStat: () => Stats | undefined): { readonly size: number; readonly path?: string | undefined } {
   const at = args.findIndex((arg) => !arg.startsWith('-'));
   if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return { size: 0 };
   const rest = args.slice(at + 1);
   const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
-  let largest: { size: number; path?: string } = { size: fileSize(stdinStat) };
+  let largest: { size: number; path?: string } = { size: 0 };
+  let fileNamed = false;
   for (const path of paths) {
-    const size = fileSize(() => statSync(path));
-    if (size > largest.size) largest = { size, path };
+    const found = regularFile(() => statSync(path));
+    if (found === undefined) continue;
+    fileNamed = true;
+    if (found.size > largest.size) largest = { size: found.size, path };
   }
-  return largest;
+  // A table named on the command line is read instead of standard input.
+  const stdin = fileNamed && !rest.includes('-') ? undefined : regularFile(stdinStat);
+  return stdin !== undefined && stdin.size > largest.size ? { size: stdin.size } : largest;
 }
 
-function fileSize(stat: () => Stats | undefined): number {
+function regularFile(stat: () => Stats | undefined): Stats | undefined {
   try {
     const found = stat();
-    return found?.isFile() ? found.size : 0;
+    return found?.isFile() ? found : undefined;
   } catch {
-    return 0;
+    return undefined;
   }
 }
 
