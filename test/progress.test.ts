@@ -67,8 +67,14 @@ function chunkedSource(count: number, clock: { now: number }, step: number): Inp
   };
 }
 
-async function readAll(source: InputSource): Promise<void> {
-  for await (const chunk of source.chunks()) expect(chunk.length).toBe(12);
+/** Reads the source as a scan does (io/scan-input.ts): its counts, [bytes, lines], kept up after each chunk scanned. */
+async function readAll(source: InputSource, chunkLength = 12): Promise<void> {
+  const counts = source.counts as Float64Array;
+  for await (const chunk of source.chunks()) {
+    expect(chunk.length).toBe(chunkLength);
+    counts[0] = (counts[0] as number) + chunk.length;
+    counts[1] = (counts[1] as number) + 3;
+  }
 }
 
 describe('drawing', () => {
@@ -89,10 +95,11 @@ describe('drawing', () => {
     const firstPass = written.splice(0);
     // 4 s in steps of 0.1 s, drawn at 1 s and then every 0.3 s (the first step past 0.25 s) up to 4 s: 11 times, then erased.
     expect(firstPass.length).toBe(12);
-    expect(firstPass[0]).toBe('\r\x1b[Kfamwise: reading: 30 lines, about 7 s left');
+    // Drawn as the tenth chunk arrives: the scan has counted the nine before it.
+    expect(firstPass[0]).toBe('\r\x1b[Kfamwise: reading: 27 lines, about 7 s left');
     expect(firstPass.at(-1)).toBe('\r\x1b[K');
     await readAll(source);
-    expect(written.some((text) => text.includes('writing: 63 of 120 lines, about 2 s left'))).toBe(true);
+    expect(written.some((text) => text.includes('writing: 60 of 120 lines, about 2 s left'))).toBe(true);
     expect(written.at(-1)).toBe('\r\x1b[K');
   });
 
@@ -105,6 +112,71 @@ describe('drawing', () => {
     }).rejects.toThrow('bad row');
     expect(written.length).toBeGreaterThan(1);
     expect(written.at(-1)).toBe('\r\x1b[K');
+  });
+});
+
+describe('lines as the scans count them', () => {
+  it('in a pass in one thread and a pass in two alike, so the two agree (a table whose lines end in CR alone)', async () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+    try {
+      const clock = { now: 0 };
+      const written: string[] = [];
+      // No LF at all: lines end in CR alone, which the scan counts (and a count of LF bytes would not).
+      const chunk = Buffer.from('0.1\r0.2\r0.3\r');
+      const source = progressLine((text) => written.push(text), () => clock.now).watch({
+        name: 't.csv',
+        extension: 'csv',
+        size: 40 * chunk.length,
+        descriptor: () => 3,
+        async *chunks() {
+          for (let i = 0; i < 40; i++) {
+            clock.now += 100;
+            yield chunk;
+          }
+        },
+      });
+      // The first pass in one thread, through chunks(), scanned as scan-input.ts does.
+      await readAll(source, chunk.length);
+      expect(written.some((text) => text.includes('reading: 27 lines'))).toBe(true);
+      // The second in two parts: "of" the lines the first pass's scan counted.
+      const tally = source.tally as PassTally;
+      const [first, second] = tally.begin(240);
+      first.set([240, 60]);
+      second.set([100, 25]);
+      clock.now += 250;
+      vi.advanceTimersByTime(250);
+      expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 85 of 120 lines, about 1 s left');
+      tally.end();
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
+  it('in a pass in two parts and then one in one thread alike (JSON lines written after a read in two threads)', async () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+    const clock = { now: 0 };
+    const written: string[] = [];
+    const source = progressLine((text) => written.push(text), () => clock.now).watch(chunkedSource(40, clock, 100));
+    try {
+      const tally = source.tally as PassTally;
+      const [first, second] = tally.begin(240);
+      clock.now += 4000;
+      // The scans leave out trailing blank lines: 118 lines, where the bytes hold 120 line feeds.
+      first.set([240, 60]);
+      second.set([240, 58]);
+      tally.end();
+    } finally {
+      vi.useRealTimers();
+    }
+    await readAll(source);
+    const drawn = written.filter((text) => text.includes('writing'));
+    expect(drawn.length).toBeGreaterThan(3);
+    // Never more lines written than the table has, as the first pass counted them.
+    for (const text of drawn) {
+      const [, done, of] = /writing: (\d+) of (\d+) lines/.exec(text) ?? [];
+      expect(Number(of)).toBe(118);
+      expect(Number(done)).toBeLessThanOrEqual(118);
+    }
   });
 });
 

@@ -11,12 +11,12 @@
 
 import type { InputSource, PassTally } from '../io/source.js';
 
-const LF = 0x0a;
 /** Nothing is shown before this many milliseconds. */
 const QUIET_START = 1000;
 /** The line is redrawn at most this often (milliseconds). */
 const REDRAW = 250;
-const ERASE = '\r\x1b[K';
+/** Back to the start of the line, and clear it. */
+export const ERASE = '\r\x1b[K';
 
 export interface ProgressSetting {
   readonly stderrIsTerminal: boolean;
@@ -91,16 +91,23 @@ export function progressLine(write: (text: string) => void, now: () => number = 
     write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
   };
 
+  /**
+   * Lines are those the scans count (io/scan-input.ts: a lone CR that ends
+   * lines counts, trailing blank lines do not), in one thread or two, so that
+   * both passes count alike. A table read in one thread, through chunks(),
+   * is counted here; each of a pass's two parts in a pair of its own (tally).
+   */
+  const inOrderCounts = new Float64Array(2);
   const startPass = (): void => {
+    // The first pass's scan has ended by now (it ends after the last chunk it read): its count is the table's.
+    if (pass > 0 && totalLines === undefined) totalLines = inOrderCounts[1];
+    inOrderCounts.fill(0);
     lines = 0;
     bytes = 0;
     passStarted = now();
   };
   const endPass = (): void => {
-    if (pass === 0) {
-      totalLines = lines;
-      totalBytes = bytes;
-    }
+    if (pass === 0) totalBytes = bytes;
     pass++;
   };
   // Messages (an error, the summary) start on a clean line.
@@ -143,6 +150,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
       clearInterval(timer);
       countParts();
       parts = undefined;
+      if (pass === 0) totalLines = lines;
       endPass();
       erase();
     },
@@ -154,6 +162,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
       return {
         ...source,
         tally,
+        counts: inOrderCounts,
         async *chunks() {
           // A first look at the start of the table (which stops early) counts as no pass.
           startPass();
@@ -161,7 +170,8 @@ export function progressLine(write: (text: string) => void, now: () => number = 
           try {
             for await (const chunk of source.chunks()) {
               bytes += chunk.length;
-              for (let at = chunk.indexOf(LF); at >= 0; at = chunk.indexOf(LF, at + 1)) lines++;
+              // As far as the scan has got (it scans what came before this chunk).
+              lines = inOrderCounts[1] as number;
               draw();
               yield chunk;
             }
