@@ -4,7 +4,9 @@
 import { statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { looksParted } from '../dist/io/worker-thread.js';
+import { VALUE_OPTIONS, looksParted } from '../dist/io/worker-thread.js';
+import { adjustCommand } from '../src/cli/adjust.js';
+import { inspectCommand } from '../src/cli/inspect.js';
 import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
 const work = temporaryFolder('famwise-early-');
@@ -56,7 +58,24 @@ describe('looksParted', () => {
     expect(looksParted(['adjust', '-'], bigStdin)).toBe(true);
     // An option's value that names no file leaves standard input in.
     expect(looksParted(['adjust', '--p-column', 'p'], bigStdin)).toBe(true);
-    // Nor is an output file read.
+    // Nor is an output file read, nor standard output ("-" as the value of -o) a table.
     expect(looksParted(['adjust', '-o', small], bigStdin)).toBe(true);
+    expect(looksParted(['adjust', small, '-o', '-'], bigStdin)).toBe(false);
+    // An option's value is not a table, even when a file of that name exists.
+    expect(looksParted(['adjust', '--p-column', small], bigStdin)).toBe(true);
+    expect(looksParted(['inspect', '--bins', small, '-'], bigStdin)).toBe(true);
+  });
+
+  it('knows every option of adjust and inspect that takes a value (VALUE_OPTIONS), and no other', () => {
+    const taking = new Set<string>();
+    const flags = new Set<string>();
+    for (const command of [adjustCommand(), inspectCommand()]) {
+      for (const option of command.options) {
+        const names = [option.short, option.long].filter((name): name is string => name !== undefined);
+        for (const name of names) (option.required || option.optional ? taking : flags).add(name);
+      }
+    }
+    expect([...VALUE_OPTIONS].sort()).toEqual([...taking].sort());
+    expect([...flags].filter((flag) => VALUE_OPTIONS.has(flag))).toEqual([]);
   });
 });

@@ -27,9 +27,18 @@ const SMALLEST = 8 << 20;
  */
 const YOUNG_GENERATION_MB = 48;
 
-/** The commands whose tables may be read in two parts (read-table.ts), and the options that name output files, not inputs. */
+/** The commands whose tables may be read in two parts (read-table.ts). */
 const COMMANDS_IN_PARTS = new Set(['adjust', 'inspect']);
-const OUTPUT_OPTIONS = new Set(['-o', '--output', '--summary', '--plot']);
+/**
+ * The options of those commands that take a value, given as the next
+ * argument, which is then not a table to read (an output file, a column
+ * name); test/worker-thread.test.ts checks the list against the commands'
+ * own definitions.
+ */
+export const VALUE_OPTIONS = new Set([
+  '--methods', '--alpha', '--tests', '--weights', '--values', '-o', '--output', '--summary', '--format', '--plot', '--pi0', '--pi0-lambda', '--pi0-seed',
+  '--bins', '--p-column', '--family', '--delimiter', '--p-scale', '--statistic', '--statistic-column', '--df', '--df-column', '--df2', '--df2-column', '--tail',
+]);
 
 /** Where the started worker waits to be taken: the command's first module and the rest are bundled apart. */
 const EARLY = Symbol.for('famwise.early-worker');
@@ -80,17 +89,18 @@ export function largestInput(args: readonly string[], stdinStat: () => Stats | u
   const at = args.findIndex((arg) => !arg.startsWith('-'));
   if (at < 0 || !COMMANDS_IN_PARTS.has(args[at] as string)) return { size: 0 };
   const rest = args.slice(at + 1);
-  const paths = rest.filter((arg, i) => !arg.startsWith('-') && !OUTPUT_OPTIONS.has(rest[i - 1] ?? ''));
+  const paths = rest.filter((arg, i) => (arg === '-' || !arg.startsWith('-')) && !VALUE_OPTIONS.has(rest[i - 1] ?? ''));
   let largest: { size: number; path?: string } = { size: 0 };
   let fileNamed = false;
   for (const path of paths) {
+    if (path === '-') continue;
     const found = regularFile(() => statSync(path));
     if (found === undefined) continue;
     fileNamed = true;
     if (found.size > largest.size) largest = { size: found.size, path };
   }
   // A table named on the command line is read instead of standard input.
-  const stdin = fileNamed && !rest.includes('-') ? undefined : regularFile(stdinStat);
+  const stdin = fileNamed && !paths.includes('-') ? undefined : regularFile(stdinStat);
   return stdin !== undefined && stdin.size > largest.size ? { size: stdin.size } : largest;
 }
 
