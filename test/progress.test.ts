@@ -1,7 +1,7 @@
 // The progress line: when it is drawn at all, what it says, and that it is
 // erased. Time is a counter the test moves, never the clock.
 import { describe, expect, it, vi } from 'vitest';
-import { progressLine, progressText, showsProgress, timeLeft } from '../src/cli/progress.js';
+import { clearLine, progressLine, progressText, showsProgress, timeLeft } from '../src/cli/progress.js';
 import type { InputSource, PassTally } from '../src/io/source.js';
 import { famwise } from './helpers/cli.js';
 
@@ -101,6 +101,19 @@ describe('drawing', () => {
     await readAll(source);
     expect(written.some((text) => text.includes('writing: 60 of 120 lines, about 2 s left'))).toBe(true);
     expect(written.at(-1)).toBe('\r\x1b[K');
+  });
+
+  it('tells what clears a line still on the screen (for a signal\'s message), and nothing when none is', async () => {
+    const clock = { now: 0 };
+    const written: string[] = [];
+    const source = progressLine((text) => written.push(text), () => clock.now).watch(chunkedSource(40, clock, 100));
+    expect(clearLine()).toBe('');
+    const chunks = source.chunks()[Symbol.asyncIterator]();
+    for (let i = 0; i < 15; i++) await chunks.next();
+    expect(written.length).toBeGreaterThan(0);
+    expect(clearLine()).toBe('\r\x1b[K');
+    await chunks.return?.();
+    expect(clearLine()).toBe('');
   });
 
   it('erases the line when a pass stops with an error', async () => {

@@ -13,7 +13,7 @@ import { auditCommand } from './audit.js';
 import { inspectCommand } from './inspect.js';
 import { CAUTION } from './cautions.js';
 import { methodsCommand } from './methods.js';
-import { ERASE } from './progress.js';
+import { clearLine } from './progress.js';
 
 const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
 
@@ -62,8 +62,8 @@ process.stdout.on('error', (error: NodeJS.ErrnoException) => {
 for (const [signal, status] of [['SIGHUP', 129], ['SIGINT', 130], ['SIGTERM', 143]] as const) {
   process.on(signal, () => {
     removeUnfinishedFiles();
-    // At a terminal, the message replaces a progress line that may be drawn (and the ^C echoed).
-    process.stderr.write(`${process.stderr.isTTY ? ERASE : ''}famwise: stopped by ${signal} before finishing; no output file was changed\n`);
+    // The message replaces a progress line on the screen.
+    process.stderr.write(`${clearLine()}famwise: stopped by ${signal} before finishing; no output file was changed\n`);
     process.exit(status);
   });
 }

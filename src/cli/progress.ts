@@ -15,8 +15,14 @@ import type { InputSource, PassTally } from '../io/source.js';
 const QUIET_START = 1000;
 /** The line is redrawn at most this often (milliseconds). */
 const REDRAW = 250;
-/** Back to the start of the line, and clear it. */
-export const ERASE = '\r\x1b[K';
+const ERASE = '\r\x1b[K';
+/** Whether a progress line is on the screen now (of any progressLine). */
+let onScreen = false;
+
+/** What clears a progress line still on the screen (a signal ends the run mid-pass): ERASE, or nothing when none is. */
+export function clearLine(): string {
+  return onScreen ? ERASE : '';
+}
 
 export interface ProgressSetting {
   readonly stderrIsTerminal: boolean;
@@ -88,6 +94,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
     if (time - started < QUIET_START || time - lastDrawn < REDRAW) return;
     lastDrawn = time;
     drawn = true;
+    onScreen = true;
     write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
   };
 
@@ -114,6 +121,7 @@ export function progressLine(write: (text: string) => void, now: () => number = 
   const erase = (): void => {
     if (drawn) write(ERASE);
     drawn = false;
+    onScreen = false;
   };
 
   /**
