@@ -20,7 +20,7 @@ import { type ColumnsPlan, movableBuffers, planFrom, plannedColumns } from './co
 import type { FirstPartMeasures } from './parallel-adjust.js';
 import { type WritePartJob, startPart } from './parts.js';
 import type { SplitPoint, TableShape } from './read-table.js';
-import { type InputSource, contentEnd, rangeSource, readAt } from './source.js';
+import { type InputSource, contentEnd, countedInto, rangeSource, readAt } from './source.js';
 import { releaseMemory } from './release-memory.js';
 import { temporaryFile } from './spill.js';
 import { checkRowCount, firstPartOutputBytes, writeTable } from './write-table.js';
@@ -105,7 +105,7 @@ export async function writeTableInParts(
     /** Writes the part from the split on in this thread, after the first. */
     const writeSecondHere = (): Promise<number> =>
       writeTable(rangeSource(source.name, fd, split.offset, contentEnd(source)), shape, plannedColumns(partPlan), format, sink, rows - split.row, { firstLine: split.line });
-    const firstPart = { ...rangeSource(source.name, fd, 0, split.offset), ...(counts ? { counts: counts[0] } : {}) };
+    const firstPart = countedInto(rangeSource(source.name, fd, 0, split.offset), counts?.[0]);
     const writeFirstHere = (): Promise<number> => writeTable(firstPart, shape, plannedColumns(plan), format, sink, split.row, {});
     const job = (outFd: number, at: number): WritePartJob => ({
       kind: 'write',

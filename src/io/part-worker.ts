@@ -12,7 +12,7 @@ import type { PartJob, PartOutcome, ReadPartJob, StepsJob, WritePartJob } from '
 import { stepsStage } from './parallel-adjust.js';
 import { type ReadPart, readTablePart } from './read-table.js';
 import { releaseMemory } from './release-memory.js';
-import { type InputSource, rangeSource } from './source.js';
+import { type InputSource, countedInto, rangeSource } from './source.js';
 import { writeTable } from './write-table.js';
 
 /** Jobs given up by the main thread: stopped at their next read. */
@@ -22,8 +22,7 @@ const cancelled = new Set<number>();
 function partSource(job: WritePartJob | ReadPartJob, id: number): InputSource {
   const source = rangeSource(job.name, job.fd, job.start, job.end);
   return {
-    ...source,
-    ...(job.counts ? { counts: job.counts } : {}),
+    ...countedInto(source, job.counts),
     async *chunks() {
       for await (const chunk of source.chunks()) {
         if (cancelled.has(id)) throw new Error('given up');

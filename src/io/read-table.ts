@@ -15,7 +15,7 @@ import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
 import { releaseMemory } from './release-memory.js';
 import { peek, scanInput } from './scan-input.js';
-import { type InputSource, contentEnd, rangeSource } from './source.js';
+import { type InputSource, contentEnd, countedInto, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
 import { CellRefusal, type ValueConverter, valueConverter } from './value-converter.js';
 
@@ -658,7 +658,7 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
     return true;
   };
   try {
-    await scanInput(half === undefined ? source : { ...endingAt(source, half), ...(counts ? { counts: counts[0] } : {}) }, { delimiter, loneCrEndsLine, firstLine }, {
+    await scanInput(half === undefined ? source : countedInto(endingAt(source, half), counts?.[0]), { delimiter, loneCrEndsLine, firstLine }, {
       record(view) {
         if (shape === undefined) {
           const header = start(view);

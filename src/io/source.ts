@@ -28,9 +28,9 @@ export interface InputSource {
   readonly bounded?: boolean;
   /**
    * Where a scan of this source (scan-input.ts) keeps count of what it has
-   * done, after each block: [bytes, lines] from the source's start, in
-   * memory another thread may read (a progress line watching a table read
-   * in two parts: PassTally).
+   * done, after each block: [bytes, lines] from the source's start, for a
+   * progress line (cli/progress.ts); for a part of a pass in two, in memory
+   * the other thread reads (PassTally).
    */
   readonly counts?: Float64Array;
   /** Set by a progress line (cli/progress.ts): told of each pass made in two parts by position, which chunks() does not see. */
@@ -40,8 +40,8 @@ export interface InputSource {
 
 /**
  * Counts for a progress line of a pass over a source read by position in
- * two parts, one per thread: unlike chunks(), which counts what passes
- * through it, the parts are read where chunks() cannot see them.
+ * two parts, one per thread: the parts are read where chunks(), which tells
+ * it of a pass in one thread, cannot see them.
  */
 export interface PassTally {
   /**
@@ -54,6 +54,11 @@ export interface PassTally {
   begin(firstEnd: number): readonly [Float64Array, Float64Array];
   /** The pass has ended, however it ended. */
   end(): void;
+}
+
+/** The source, with its scan counting into `counts` when there are any (InputSource.counts). */
+export function countedInto<T extends InputSource>(source: T, counts: Float64Array | undefined): T {
+  return counts ? { ...source, counts } : source;
 }
 
 /** Where a source read by position ends: its size when bounded, else wherever the file ends (Infinity). */
