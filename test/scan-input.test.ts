@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { RecordScanner, type RecordView, fieldText } from '../src/io/csv-scan.js';
 import { peek, scanInput } from '../src/io/scan-input.js';
-import { bufferSource, fileSource, rangeSource } from '../src/io/source.js';
+import { ChunkPool, bufferSource, fileSource, rangeSource } from '../src/io/source.js';
 import { seededRandom } from './helpers/random.js';
 import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
@@ -64,6 +64,118 @@ describe('scanInput', () => {
         expect(chunked.length).toBe(whole.length);
         expect(chunked).toEqual(whole);
       }
+    }
+  });
+});
+
+describe('reading through a few buffers used again (ChunkPool)', () => {
+  it('hands out a buffer given back, takes back only its own, and keeps a few', () => {
+    const pool = new ChunkPool();
+    const first = pool.take();
+    const second = pool.take();
+    expect(first.buffer).not.toBe(second.buffer);
+    expect(first.length).toBe(pool.size);
+    // A chunk is a view of part of a buffer: the whole buffer goes back.
+    pool.give(first.subarray(10, 20));
+    expect(pool.take().buffer).toBe(first.buffer);
+    // Given back twice before it is taken again: handed out once.
+    pool.give(second);
+    pool.give(second);
+    expect(pool.take().buffer).toBe(second.buffer);
+    expect(pool.take().buffer).not.toBe(second.buffer);
+    // Not its own (another pool's, or any buffer): left alone.
+    pool.give(Buffer.alloc(pool.size));
+    pool.give(new ChunkPool().take());
+    const made = [pool.take(), pool.take(), pool.take(), pool.take(), pool.take(), pool.take()];
+    expect(new Set(made.map((each) => each.buffer)).size).toBe(6);
+    for (const each of made) pool.give(each);
+    // A few are kept; the rest are left to the collector.
+    const again = new Set(Array.from({ length: 6 }, () => pool.take().buffer));
+    expect(made.filter((each) => again.has(each.buffer)).length).toBe(4);
+  });
+
+  it('reads a file by position into the pool\'s buffers, and the scan gives every one back', async () => {
+    const work = temporaryFolder('famwise-pool-');
+    const bytes = messyTable(seededRandom(31), 3_500_000);
+    const path = join(work, 'table.csv');
+    writeFileSync(path, bytes);
+    const fd = openSync(path, 'r');
+    try {
+      const pool = new ChunkPool();
+      const taken = new Set<ArrayBufferLike>();
+      const chunks: Buffer[] = [];
+      for await (const chunk of rangeSource(path, fd, 0, Infinity).chunks(pool)) {
+        taken.add(chunk.buffer);
+        chunks.push(Buffer.from(chunk));
+        pool.give(chunk);
+      }
+      expect(Buffer.concat(chunks).equals(bytes)).toBe(true);
+      // Each chunk went back before the next was read: one buffer did for all.
+      expect(taken.size).toBe(1);
+      expect(chunks.length).toBeGreaterThan(3);
+
+      // scanInput passes its own pool: every buffer it was given is back once it ends.
+      const given: Uint8Array[] = [];
+      const yielded: Buffer[] = [];
+      const source = {
+        name: path,
+        extension: 'csv',
+        async *chunks(scanPool?: ChunkPool) {
+          expect(scanPool).toBeInstanceOf(ChunkPool);
+          const pool = scanPool as ChunkPool;
+          const give = pool.give.bind(pool);
+          pool.give = (chunk: Uint8Array) => {
+            given.push(chunk);
+            give(chunk);
+          };
+          try {
+            for await (const chunk of rangeSource(path, fd, 0, Infinity).chunks(pool)) {
+              yielded.push(chunk);
+              yield chunk;
+            }
+          } finally {
+            pool.give = give;
+          }
+        },
+      };
+      const seen: Seen[] = [];
+      await scanInput(source, { delimiter: 0x2c, loneCrEndsLine: false }, { record: see(seen) });
+      const whole: Seen[] = [];
+      new RecordScanner(0x2c, path).scan(bytes, 0, true, see(whole));
+      expect(seen).toEqual(whole);
+      const back = new Set(given.map((chunk) => chunk.buffer));
+      expect(yielded.length).toBeGreaterThan(3);
+      expect(yielded.every((chunk) => back.has(chunk.buffer))).toBe(true);
+    } finally {
+      closeSync(fd);
+    }
+  });
+
+  it('reports the records of a single scan of the whole input when a record spans several reads, pass after pass', async () => {
+    // Reads of 1 MB into buffers used again: a record longer than several reads (a quoted field
+    // of 2.5 MB with line breaks and a CRLF at a read's edge) is carried across them, so no buffer
+    // may be read into again while the carry still lies in it.
+    const random = seededRandom(37);
+    const long = `"${'x'.repeat(700_000)}\r\n${'y'.repeat(1_048_000)}\n""${'z'.repeat(800_000)}"`;
+    const pieces = [messyTable(random, 1_048_570), Buffer.from(`9,${long},0.5\r\n`), messyTable(random, 2_500_000).subarray(10), Buffer.from(`10,"${'w'.repeat(1_200_000)}",0.25\n`)];
+    const bytes = Buffer.concat(pieces);
+    const work = temporaryFolder('famwise-long-');
+    const path = join(work, 'table.csv');
+    writeFileSync(path, bytes);
+    const whole: Seen[] = [];
+    new RecordScanner(0x2c, path).scan(bytes, 0, true, see(whole));
+    expect(whole.some((record) => record.raw.length > 2_500_000)).toBe(true);
+    const fd = openSync(path, 'r');
+    try {
+      const source = { name: path, extension: 'csv', size: bytes.length, descriptor: () => fd, chunks: (pool?: ChunkPool) => rangeSource(path, fd, 0, Infinity).chunks(pool) };
+      for (let pass = 0; pass < 3; pass++) {
+        const seen: Seen[] = [];
+        await scanInput(source, { delimiter: 0x2c, loneCrEndsLine: false }, { record: see(seen) });
+        expect(seen.length).toBe(whole.length);
+        expect(seen).toEqual(whole);
+      }
+    } finally {
+      closeSync(fd);
     }
   });
 });

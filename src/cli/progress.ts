@@ -171,12 +171,12 @@ export function progressLine(write: (text: string) => void, now: () => number = 
         ...source,
         tally,
         counts: inOrderCounts,
-        async *chunks() {
+        async *chunks(pool) {
           // A first look at the start of the table (which stops early) counts as no pass.
           startPass();
           inOrder = true;
           try {
-            for await (const chunk of source.chunks()) {
+            for await (const chunk of source.chunks(pool)) {
               bytes += chunk.length;
               // As far as the scan has got (it scans what came before this chunk).
               lines = inOrderCounts[1] as number;

@@ -6,6 +6,7 @@
 // A write error (such as EPIPE when the reader of a pipe has gone) is raised
 // from the next flush.
 
+import { WriteStream } from 'node:fs';
 import type { Writable } from 'node:stream';
 import { LONGEST_NUMBER, writeNumber } from './number-text.js';
 
@@ -18,6 +19,12 @@ const BLOCK_SIZE = 1 << 20;
 const FIRST_BLOCK_SIZE = 1 << 14;
 /** Bytes left queued in the stream before waiting for it to drain. */
 const MAX_QUEUED = 16 << 20;
+/**
+ * Blocks a sink that fills blocks again leaves with the stream before
+ * waiting for the first of them to be written: few, so that few are ever
+ * made; enough to keep the stream busy while the next are filled.
+ */
+const MAX_IN_FLIGHT = 4;
 /** Runs up to this many bytes are copied byte by byte. */
 const SHORT = 128;
 const QUOTE = 0x22;
@@ -69,11 +76,25 @@ export class ByteSink {
   /** Bytes handed to the stream so far. */
   written = 0;
   private readonly full: Buffer[] = [];
+  /**
+   * Blocks the stream is done with, filled again rather than new ones
+   * allocated: memory touched for the first time costs a page fault per
+   * 4 KB (source.ts, ChunkPool). Only for a file stream or standard output,
+   * which keep no block once its write has called back; another stream (one
+   * that collects what it is given, say) might.
+   */
+  private readonly spare: ArrayBuffer[] = [];
+  private readonly reuses: boolean;
+  /** Blocks given to the stream whose writes have not yet called back (when reusing). */
+  private inFlight = 0;
+  /** Called when one of them does. */
+  private wake: (() => void) | undefined;
 
   constructor(private readonly stream: Writable) {
     stream.on('error', (error: Error) => {
       this.failure ??= error;
     });
+    this.reuses = stream instanceof WriteStream || stream === process.stdout;
   }
 
   /** Appends a piece: bytes as they are, text as UTF-8. */
@@ -193,7 +214,8 @@ export class ByteSink {
   /** Puts the filled block aside to be written, and starts a new one that holds at least `room` bytes. */
   private nextBlock(room: number): void {
     if (this.size > 0) this.full.push(this.block.subarray(0, this.size));
-    this.block = Buffer.allocUnsafeSlow(Math.max(BLOCK_SIZE, room));
+    const spare = room <= BLOCK_SIZE ? this.spare.pop() : undefined;
+    this.block = spare ? Buffer.from(spare) : Buffer.allocUnsafeSlow(Math.max(BLOCK_SIZE, room));
     this.blockWords = new DataView(this.block.buffer, this.block.byteOffset, this.block.byteLength);
     this.size = 0;
   }
@@ -236,8 +258,28 @@ export class ByteSink {
     this.throwIfFailed();
     if (force && this.size > 0) this.nextBlock(0);
     for (const block of this.full.splice(0)) {
-      this.stream.write(block);
+      const whole = block.buffer;
+      if (this.reuses && whole instanceof ArrayBuffer && whole.byteLength === BLOCK_SIZE) {
+        this.inFlight++;
+        this.stream.write(block, (error?: Error | null) => {
+          this.inFlight--;
+          if (!error) this.spare.push(whole);
+          const wake = this.wake;
+          this.wake = undefined;
+          wake?.();
+        });
+      } else this.stream.write(block);
       this.written += block.length;
+    }
+    if (this.reuses) {
+      // A write that fails calls back too (and so do those queued behind it, as the stream is destroyed).
+      while (this.inFlight > MAX_IN_FLIGHT) {
+        await new Promise<void>((resolve) => {
+          this.wake = resolve;
+        });
+        this.throwIfFailed();
+      }
+      return;
     }
     // Waiting for 'drain' at every block would stop the work at each write
     // (a file stream's own limit is 16 KB); blocks are left queued up to a

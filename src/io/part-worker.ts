@@ -23,9 +23,12 @@ function partSource(job: WritePartJob | ReadPartJob, id: number): InputSource {
   const source = rangeSource(job.name, job.fd, job.start, job.end);
   return {
     ...countedInto(source, job.counts),
-    async *chunks() {
-      for await (const chunk of source.chunks()) {
-        if (cancelled.has(id)) throw new Error('given up');
+    async *chunks(pool) {
+      for await (const chunk of source.chunks(pool)) {
+        if (cancelled.has(id)) {
+          pool?.give(chunk);
+          throw new Error('given up');
+        }
         yield chunk;
       }
     },

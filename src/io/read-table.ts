@@ -14,7 +14,7 @@ import { NOT_SIMPLE, simpleDecimal } from './number-bytes.js';
 import { admissibleClaim, readPrintedValue } from './printed-value.js';
 import { type RunningPart, inParts, startPart, warmUp } from './parts.js';
 import { releaseMemory } from './release-memory.js';
-import { peek, scanInput } from './scan-input.js';
+import { lookAtHead, scanInput } from './scan-input.js';
 import { type InputSource, contentEnd, countedInto, rangeSource } from './source.js';
 import type { ValueReading } from './statistic-text.js';
 import { CellRefusal, type ValueConverter, valueConverter } from './value-converter.js';
@@ -393,9 +393,9 @@ function endingAt(source: InputSource, at: number): InputSource {
   const fd = (source.descriptor as () => number)();
   return {
     ...source,
-    async *chunks() {
-      yield* rangeSource(source.name, fd, 0, at).chunks();
-      yield* rangeSource(source.name, fd, at, contentEnd(source)).chunks();
+    async *chunks(pool) {
+      yield* rangeSource(source.name, fd, 0, at).chunks(pool);
+      yield* rangeSource(source.name, fd, at, contentEnd(source)).chunks(pool);
     },
   };
 }
@@ -411,10 +411,12 @@ async function readRecords(source: InputSource, options: ReadOptions, firstLine?
   // parts is linear. Other callers (inspect) would only pay for it.
   const sortParts = inTwoParts && options.sortP === true && (options.familyColumns ?? []).length === 0 && options.weightsColumn === undefined;
   let missingRows = 0;
-  const head = known ? undefined : await peek(source, SNIFF_BYTES);
-  if (head) refuseUnreadable(head, source.name);
-  const delimiter = known?.delimiter ?? options.delimiter ?? sniffDelimiter(head as Buffer, source.extension);
-  const loneCrEndsLine = known?.loneCrEndsLine ?? sniffLoneCr(head as Buffer);
+  const { delimiter, loneCrEndsLine } =
+    known ??
+    (await lookAtHead(source, SNIFF_BYTES, (head) => {
+      refuseUnreadable(head, source.name);
+      return { delimiter: options.delimiter ?? sniffDelimiter(head, source.extension), loneCrEndsLine: sniffLoneCr(head) };
+    }));
   // In a table not separated by commas, "0,05" can only be a decimal comma.
   const decimalCommaAllowed = delimiter !== COMMA;
   let decimalCommaSeen = false;

@@ -4,7 +4,7 @@
 
 import { type PlainColumn, RecordScanner, type RecordView, type ScanOptions } from './csv-scan.js';
 import type { Dialect } from './dialect.js';
-import { type InputSource, contentEnd, readAt } from './source.js';
+import { ChunkPool, type InputSource, contentEnd, readAt } from './source.js';
 
 const BLOCK_SIZE = 1 << 20;
 /**
@@ -22,6 +22,9 @@ const JOIN = 1 << 16;
  * The records are the same: a scan resumes where the last one stopped.
  */
 const WARM = 1 << 16;
+
+/** This thread's read buffers, used again by every scan (source.ts, ChunkPool). */
+const readBuffers = new ChunkPool();
 
 export interface ScanHandlers {
   record(view: RecordView): void;
@@ -43,12 +46,32 @@ export interface ScanHandlers {
  * The first bytes of a source, at least `want` of them unless it is shorter
  * (exactly `want` from a source read by position; from a stream, whole chunks).
  */
-export async function peek(source: InputSource, want: number): Promise<Buffer> {
+export function peek(source: InputSource, want: number): Promise<Buffer> {
+  return readHead(source, want);
+}
+
+/**
+ * What look() makes of the first bytes of a source (as peek gives them),
+ * read into one of this thread's read buffers when they fit, which the scan
+ * that follows then reads into again.
+ */
+export async function lookAtHead<T>(source: InputSource, want: number, look: (head: Buffer) => T): Promise<T> {
+  const buffer = source.descriptor !== undefined && want <= readBuffers.size ? readBuffers.take() : undefined;
+  try {
+    return look(await readHead(source, want, buffer));
+  } finally {
+    if (buffer) readBuffers.give(buffer);
+  }
+}
+
+/** peek's bytes; read by position into `into` when given (it has room for `want`). */
+async function readHead(source: InputSource, want: number, into?: Buffer): Promise<Buffer> {
   // Read by position: just those bytes. (A stream would read a whole 4 MB chunk, and emit an
   // error as it is given up: some 10-20 ms at start-up, twice.)
   if (source.descriptor !== undefined) {
     const fd = source.descriptor();
-    const head = Buffer.allocUnsafe(Math.min(want, contentEnd(source)));
+    const length = Math.min(want, contentEnd(source));
+    const head = into ? into.subarray(0, length) : Buffer.allocUnsafe(length);
     let got = 0;
     while (got < head.length) {
       const read = (await readAt(fd, head.length - got, got, head.subarray(got))).length;
@@ -77,11 +100,14 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
   /** Where carry[0] lies in the input. */
   let carryOffset = 0;
   let first = true;
+  /** The chunk the carry lies in, kept until the next block has taken the carry. */
+  let held: Buffer | undefined;
   const scanBlock = async (atEnd: boolean): Promise<void> => {
     let block: Buffer;
     let from = 0;
     // Where block[0] lies in the input.
     let blockOffset = carryOffset;
+    const scanned = pending;
     const chunk = pending.length === 1 ? (pending[0] as Buffer) : undefined;
     if (chunk && carry.length === 0) block = chunk;
     else if (chunk && chunk.length > JOIN && carry.length < JOIN) {
@@ -105,6 +131,12 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     const consumed = scanner.scan(block, from, atEnd, handlers.record, handlers.column);
     carry = block.subarray(consumed);
     carryOffset = blockOffset + consumed;
+    // Every chunk scanned goes back to the pool, but the one the carry lies in (the carry before
+    // this block has been copied or scanned by now); the handlers keep no views of them.
+    const before = held;
+    held = carry.length > 0 && block === chunk ? chunk : undefined;
+    if (before !== undefined && before !== held) readBuffers.give(before);
+    for (const each of scanned) if (each !== held) readBuffers.give(each);
     if (counts) {
       counts[0] = carryOffset;
       counts[1] = scanner.line - firstLine;
@@ -112,20 +144,28 @@ export async function scanInput(source: InputSource, dialect: Dialect & ScanOpti
     if (handlers.afterBlock) await handlers.afterBlock();
   };
   let fed = 0;
-  for await (const chunk of source.chunks()) {
-    pending.push(chunk);
-    pendingSize += chunk.length;
-    fed += chunk.length;
-    if (handlers.pause && fed === handlers.pause.at) {
-      await scanBlock(false);
-      if (carry.length === 0 && !(await handlers.pause.resume(scanner.line))) return;
-      continue;
+  try {
+    for await (const chunk of source.chunks(readBuffers)) {
+      pending.push(chunk);
+      pendingSize += chunk.length;
+      fed += chunk.length;
+      if (handlers.pause && fed === handlers.pause.at) {
+        await scanBlock(false);
+        if (carry.length === 0 && !(await handlers.pause.resume(scanner.line))) return;
+        continue;
+      }
+      // A record longer than a block (or a quote never closed) is rescanned
+      // only when the new input is as large as the carry, which keeps the
+      // total work linear rather than quadratic.
+      if (pendingSize >= Math.max(BLOCK_SIZE, carry.length)) await scanBlock(false);
     }
-    // A record longer than a block (or a quote never closed) is rescanned
-    // only when the new input is as large as the carry, which keeps the
-    // total work linear rather than quadratic.
-    if (pendingSize >= Math.max(BLOCK_SIZE, carry.length)) await scanBlock(false);
+    await scanBlock(true);
+    if (handlers.trailing && carry.length > 0) handlers.trailing(carry, 0);
+  } finally {
+    // Whatever the scan ended with (an error, a pause that stops it): the chunks it still holds.
+    for (const each of pending) readBuffers.give(each);
+    if (held !== undefined) readBuffers.give(held);
+    pending = [];
+    held = undefined;
   }
-  await scanBlock(true);
-  if (handlers.trailing && carry.length > 0) handlers.trailing(carry, 0);
 }

@@ -116,6 +116,6 @@ export async function spilledSource(stream: Readable, name: string, inMemory = I
     size,
     descriptor: () => handle.fd,
     // Read by position, so that passes (and a first look that stops early) never disturb each other.
-    chunks: () => rangeSource(name, handle.fd, 0, Infinity).chunks(),
+    chunks: (pool) => rangeSource(name, handle.fd, 0, Infinity).chunks(pool),
   };
 }
