@@ -9,7 +9,7 @@ import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
-import { childEnvironment, relaunchWanted, runInChild } from '../dist/cli/relaunch.js';
+import { childEnvironment, relaunchWanted, runInChild, withHugePages } from '../dist/cli/relaunch.js';
 import { CLI } from './helpers/cli.js';
 import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
 
@@ -64,9 +64,18 @@ describe('relaunchWanted', () => {
 });
 
 describe('childEnvironment', () => {
-  it('marks the child, drops the certificates file famwise never uses, and keeps everything else', () => {
+  it('marks the child, drops the certificates file famwise never uses, asks for huge pages, and keeps everything else', () => {
     const env = childEnvironment({ PATH: '/bin', NODE_EXTRA_CA_CERTS: '/etc/certs.pem', LC_ALL: 'C' });
-    expect(env).toEqual({ PATH: '/bin', LC_ALL: 'C', FAMWISE_RELAUNCHED: '1' });
+    expect(env).toEqual({ PATH: '/bin', LC_ALL: 'C', FAMWISE_RELAUNCHED: '1', GLIBC_TUNABLES: 'glibc.malloc.hugetlb=1' });
+  });
+
+  it('adds huge pages to the caller\'s own glibc settings, and leaves a choice of them alone', () => {
+    expect(withHugePages(undefined)).toBe('glibc.malloc.hugetlb=1');
+    expect(withHugePages('')).toBe('glibc.malloc.hugetlb=1');
+    expect(withHugePages('glibc.malloc.arena_max=2')).toBe('glibc.malloc.arena_max=2:glibc.malloc.hugetlb=1');
+    expect(withHugePages('glibc.malloc.hugetlb=0')).toBe('glibc.malloc.hugetlb=0');
+    expect(withHugePages('glibc.malloc.arena_max=2:glibc.malloc.hugetlb=2')).toBe('glibc.malloc.arena_max=2:glibc.malloc.hugetlb=2');
+    expect(childEnvironment({ GLIBC_TUNABLES: 'glibc.malloc.hugetlb=0' }).GLIBC_TUNABLES).toBe('glibc.malloc.hugetlb=0');
   });
 });
 
@@ -79,7 +88,7 @@ describe('runInChild', () => {
       "import { writeFileSync } from 'node:fs';",
       'watchParent();',
       "const [mode] = process.argv.slice(2);",
-      "console.log(JSON.stringify({ execArgv: process.execArgv, certs: process.env.NODE_EXTRA_CA_CERTS ?? null, child: process.env.FAMWISE_RELAUNCHED }));",
+      "console.log(JSON.stringify({ execArgv: process.execArgv, certs: process.env.NODE_EXTRA_CA_CERTS ?? null, child: process.env.FAMWISE_RELAUNCHED, tunables: process.env.GLIBC_TUNABLES }));",
       "if (mode === 'status') process.exit(3);",
       "if (mode === 'killed') process.kill(process.pid, 'SIGKILL');",
       `if (mode === 'wait') { process.on('SIGTERM', () => { writeFileSync(${JSON.stringify(join(work, 'stopped'))}, 'yes'); console.log('child got SIGTERM'); process.exit(143); }); console.log('ready'); setTimeout(() => {}, 20000); }`,
@@ -96,7 +105,7 @@ describe('runInChild', () => {
 
   it('starts the child with the flag, marked, without the certificates file, and takes its exit status', () => {
     const result = spawnSync(process.execPath, [parent, 'status'], { encoding: 'utf8' });
-    expect(JSON.parse(result.stdout.split('\n')[0] as string)).toEqual({ execArgv: ['--no-concurrent-recompilation'], certs: null, child: '1' });
+    expect(JSON.parse(result.stdout.split('\n')[0] as string)).toEqual({ execArgv: ['--no-concurrent-recompilation'], certs: null, child: '1', tunables: 'glibc.malloc.hugetlb=1' });
     expect(result.status).toBe(3);
   });
 

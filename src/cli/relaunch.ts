@@ -20,6 +20,7 @@
 // The child's environment lacks NODE_EXTRA_CA_CERTS: famwise opens no
 // connections, and Node reads every certificate of that file when it
 // starts (55 ms for the 144 of the system bundle, on the benchmark machine).
+// It asks glibc's malloc for transparent huge pages (GLIBC_TUNABLES, below).
 
 import { type Stats, closeSync, openSync, readSync } from 'node:fs';
 import { availableParallelism, constants } from 'node:os';
@@ -85,10 +86,29 @@ function startsGzip(path: string | undefined): boolean {
   }
 }
 
-/** The child's environment: this one's, marked as the child's, without the certificates file. */
+/**
+ * The glibc setting that has malloc ask the kernel for transparent huge
+ * pages (madvise) for the memory it maps: the table's arrays, the output's
+ * blocks. A page fault then maps 2 MB rather than 4 KB, and memory touched
+ * for the first time costs far fewer of them: a million rows, 12 runs in
+ * turns, 0.89 to 0.81 s, page faults 34 to 22 thousand (the benchmark
+ * machine, a virtual machine where faults are dear). Where the kernel's
+ * huge pages are off, where the C library is not glibc (2.35 or later), or
+ * where the caller's GLIBC_TUNABLES already sets it, nothing changes.
+ */
+const HUGE_PAGES = 'glibc.malloc.hugetlb';
+
+/** GLIBC_TUNABLES with huge pages asked for, unless the caller's own value says otherwise. */
+export function withHugePages(tunables: string | undefined): string {
+  if (tunables === undefined || tunables === '') return `${HUGE_PAGES}=1`;
+  if (tunables.split(':').some((setting) => setting.startsWith(`${HUGE_PAGES}=`))) return tunables;
+  return `${tunables}:${HUGE_PAGES}=1`;
+}
+
+/** The child's environment: this one's, marked as the child's, without the certificates file, with huge pages asked for. */
 export function childEnvironment(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv {
   const { NODE_EXTRA_CA_CERTS: _certificates, ...rest } = env;
-  return { ...rest, [CHILD]: '1' };
+  return { ...rest, [CHILD]: '1', GLIBC_TUNABLES: withHugePages(env.GLIBC_TUNABLES) };
 }
 
 /**
