@@ -53,11 +53,20 @@ export async function temporaryFile(): Promise<FileHandle> {
   return handle;
 }
 
+/**
+ * Writes the chunks as they are, in one call (not copied into one block
+ * first: new memory for every byte of the input, each page of it a page
+ * fault); whatever a short write leaves goes after.
+ */
 async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<void> {
-  let block = Buffer.concat(chunks);
-  while (block.length > 0) {
-    const { bytesWritten } = await file.write(block);
-    block = block.subarray(bytesWritten);
+  const total = chunks.reduce((sum, chunk) => sum + chunk.length, 0);
+  let { bytesWritten: done } = await file.writev(chunks as Buffer[]);
+  if (done === total) return;
+  let rest = Buffer.concat(chunks).subarray(done);
+  while (rest.length > 0) {
+    const { bytesWritten } = await file.write(rest);
+    done += bytesWritten;
+    rest = rest.subarray(bytesWritten);
   }
 }
 
