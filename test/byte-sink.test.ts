@@ -61,6 +61,29 @@ describe('ByteSink', () => {
     expect(new Set(kept.map((chunk) => chunk.buffer)).size).toBe(kept.length);
   });
 
+  it('waits for a slow file as much when records are larger than a block, so that what is queued stays bounded', async () => {
+    const path = join(temporaryFolder('famwise-sink-'), 'out.csv');
+    const stream = createWriteStream(path);
+    // A slow disk: each write calls back 5 ms late.
+    const slow = stream._write.bind(stream);
+    stream._write = (chunk, encoding, callback) => slow(chunk, encoding, (error?: Error | null) => setTimeout(() => callback(error), 5));
+    stream._writev = undefined;
+    const sink = new ByteSink(stream);
+    const record = Buffer.alloc(1_500_000, 0x61);
+    let queued = 0;
+    for (let k = 0; k < 30; k++) {
+      sink.pushBytes(record, 0, record.length);
+      await sink.flush();
+      queued = Math.max(queued, stream.writableLength);
+    }
+    await sink.flush(true);
+    await sink.settled();
+    await new Promise<void>((resolve) => stream.end(resolve));
+    expect(readFileSync(path).length).toBe(30 * record.length);
+    // 45 MB written, at most a few records' worth waiting at any time.
+    expect(queued).toBeLessThanOrEqual(4 * record.length);
+  });
+
   it('fails with the stream\'s error, not a hang, when a file stream cannot write (a full disk)', async () => {
     const stream = createWriteStream('/dev/full');
     stream.on('error', () => {});

@@ -20,11 +20,11 @@ const FIRST_BLOCK_SIZE = 1 << 14;
 /** Bytes left queued in the stream before waiting for it to drain. */
 const MAX_QUEUED = 16 << 20;
 /**
- * Blocks a sink that fills blocks again leaves with the stream before
- * waiting for the first of them to be written: few, so that few are ever
- * made; enough to keep the stream busy while the next are filled.
+ * Bytes a sink that fills blocks again leaves with the stream before
+ * waiting for the first of them to be written: 4 blocks, few, so that few
+ * are ever made; enough to keep the stream busy while the next are filled.
  */
-const MAX_IN_FLIGHT = 4;
+const MAX_IN_FLIGHT = 4 * BLOCK_SIZE;
 /** Runs up to this many bytes are copied byte by byte. */
 const SHORT = 128;
 const QUOTE = 0x22;
@@ -85,7 +85,7 @@ export class ByteSink {
    */
   private readonly spare: ArrayBuffer[] = [];
   private readonly reuses: boolean;
-  /** Blocks given to the stream whose writes have not yet called back (when reusing). */
+  /** Bytes given to the stream whose writes have not yet called back (when reusing). */
   private inFlight = 0;
   /** Called when one of them does. */
   private wake: (() => void) | undefined;
@@ -221,6 +221,31 @@ export class ByteSink {
   }
 
   /**
+   * Hands a block to the stream, its bytes counted in flight until its
+   * write calls back (every block's, so that a record larger than a block is
+   * waited for too); a block of the usual size is then filled again.
+   */
+  private writeCounted(block: Buffer): void {
+    const whole = block.buffer;
+    const again = whole instanceof ArrayBuffer && whole.byteLength === BLOCK_SIZE;
+    this.inFlight += block.length;
+    try {
+      this.stream.write(block, (error?: Error | null) => {
+        this.inFlight -= block.length;
+        // The stream's own error first: writes queued behind a failed one call back with a vaguer one.
+        if (error) this.failure ??= this.firstError() ?? error;
+        else if (again) this.spare.push(whole);
+        const wake = this.wake;
+        this.wake = undefined;
+        wake?.();
+      });
+    } catch (error) {
+      this.inFlight -= block.length;
+      throw error;
+    }
+  }
+
+  /**
    * Writes what is gathered, then `block` as it is; resolves once the
    * stream is done with the block, which can then be filled again.
    */
@@ -258,17 +283,8 @@ export class ByteSink {
     this.throwIfFailed();
     if (force && this.size > 0) this.nextBlock(0);
     for (const block of this.full.splice(0)) {
-      const whole = block.buffer;
-      if (this.reuses && whole instanceof ArrayBuffer && whole.byteLength === BLOCK_SIZE) {
-        this.inFlight++;
-        this.stream.write(block, (error?: Error | null) => {
-          this.inFlight--;
-          if (!error) this.spare.push(whole);
-          const wake = this.wake;
-          this.wake = undefined;
-          wake?.();
-        });
-      } else this.stream.write(block);
+      if (this.reuses) this.writeCounted(block);
+      else this.stream.write(block);
       this.written += block.length;
     }
     if (this.reuses) {
