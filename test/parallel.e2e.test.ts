@@ -429,9 +429,14 @@ describe('a progress line, with both passes in two parts', () => {
             firstEnds.push(firstEnd);
             return passes[passes.push(tally.begin(firstEnd)) - 1] as readonly [Float64Array, Float64Array];
           },
+          copied: (done: number, of: number) => {
+            copies.push([done, of]);
+            tally.copied(done, of);
+          },
           end: () => tally.end(),
         },
       };
+      const copies: [number, number][] = [];
       const read = await readTable(source, { sortP: true });
       expect(read.split).toBeDefined();
       const plan = { alpha: 0.05, decimalComma: false, columns: [{ name: 'q', kind: 'number' as const, values: read.p }] };
@@ -463,6 +468,10 @@ describe('a progress line, with both passes in two parts', () => {
         expect((first[0] as number) + (second[0] as number)).toBe(bytes.length);
         expect((first[1] as number) + (second[1] as number)).toBe(lines);
       }
+      // The worker's part, written apart, was told as it was copied after this thread's, to its end.
+      expect(copies.length).toBeGreaterThan(0);
+      expect(copies.at(-1)?.[0]).toBe(copies.at(-1)?.[1]);
+      expect(copies.every(([done, of], k) => of === copies[0]?.[1] && done > (copies[k - 1]?.[0] ?? 0))).toBe(true);
       // And the table written is one thread's.
       const oneThread = collect();
       await writeTable(fileSource(path), read.shape, plannedColumns(plan), { delimiter: 0x2c }, oneThread.sink, read.p.length);

@@ -48,6 +48,11 @@ describe('what it says', () => {
     expect(progressText({ pass: 0, lines: 1234567, totalLines: undefined, bytes: 250, totalBytes: 1000, elapsed: 1000 })).toBe('famwise: reading: 1,234,567 lines, about 7 s left');
     expect(progressText({ pass: 1, lines: 5, totalLines: 10, bytes: 50, totalBytes: 100, elapsed: 60_000 })).toBe('famwise: writing: 5 of 10 lines, about 1 min 00 s left');
     expect(progressText({ pass: 0, lines: 3, totalLines: undefined, bytes: 3, totalBytes: undefined, elapsed: 10 })).toBe('famwise: reading: 3 lines');
+    // Every line written, the second part being copied into place: the rest of the copy at its speed so far.
+    expect(progressText({ pass: 1, lines: 10, totalLines: 10, bytes: 100, totalBytes: 100, elapsed: 9000, copy: { done: 25, of: 100, elapsed: 2000 } })).toBe(
+      'famwise: writing: 10 of 10 lines, copying the second part into place: 25%, about 6 s left',
+    );
+    expect(progressText({ pass: 1, lines: 10, totalLines: 10, bytes: 100, totalBytes: 100, elapsed: 9000, copy: { done: 0, of: 100, elapsed: 0 } })).toBe('famwise: writing: 10 of 10 lines, copying the second part into place: 0%');
   });
 });
 
@@ -194,6 +199,39 @@ describe('lines as the scans count them', () => {
 });
 
 describe('with a table read by position', () => {
+  it('shows the copy of a second part written apart once every line is written, rather than standing at the end', () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+    try {
+      const clock = { now: 0 };
+      const written: string[] = [];
+      const source = progressLine((text) => written.push(text), () => clock.now).watch({ name: 't.csv', extension: 'csv', size: 1000, descriptor: () => 3, chunks: async function* () {} });
+      const tally = source.tally as PassTally;
+      const tick = (ms: number): void => {
+        clock.now += ms;
+        vi.advanceTimersByTime(ms);
+      };
+      const [readFirst, readSecond] = tally.begin(500);
+      readFirst.set([500, 50]);
+      readSecond.set([500, 50]);
+      tally.end();
+      const [first, second] = tally.begin(500);
+      first.set([500, 50]);
+      second.set([500, 50]);
+      tick(2000);
+      expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 100 of 100 lines, about 1 s left');
+      tally.copied(1000, 4000);
+      tick(1000);
+      tally.copied(2000, 4000);
+      tick(250);
+      // 2000 of 4000 bytes in 1.25 s since the copy began: about 1 s more.
+      expect(written.at(-1)).toBe('\r\x1b[Kfamwise: writing: 100 of 100 lines, copying the second part into place: 50%, about 1 s left');
+      tally.end();
+      expect(written.at(-1)).toBe('\r\x1b[K');
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
   it('keeps the descriptor, so that a large table is still read in two threads', () => {
     const source: InputSource = { name: 't.csv', extension: 'csv', size: 10, descriptor: () => 3, chunks: async function* () {} };
     const watched = progressLine(() => {}).watch(source);

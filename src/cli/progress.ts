@@ -50,6 +50,8 @@ export interface ProgressState {
   readonly totalBytes: number | undefined;
   /** Milliseconds spent in this pass. */
   readonly elapsed: number;
+  /** Once every line is written: the second part, written apart, being copied after the first (bytes, and milliseconds since the copy began). */
+  readonly copy?: { readonly done: number; readonly of: number; readonly elapsed: number } | undefined;
 }
 
 function seconds(milliseconds: number): string {
@@ -59,7 +61,9 @@ function seconds(milliseconds: number): string {
 
 /** Milliseconds left: the rest of this pass at its speed so far, and all of the second pass while in the first. */
 export function timeLeft(state: ProgressState): number | undefined {
-  const { totalBytes, bytes, elapsed, pass } = state;
+  const { totalBytes, bytes, elapsed, pass, copy } = state;
+  // The rest of a copy at its speed so far.
+  if (copy) return copy.done > 0 && copy.elapsed > 0 ? (copy.elapsed * Math.max(0, copy.of - copy.done)) / copy.done : undefined;
   if (totalBytes === undefined || bytes === 0 || elapsed <= 0) return undefined;
   const thisPass = (elapsed * Math.max(0, totalBytes - bytes)) / bytes;
   return pass === 0 ? thisPass + (elapsed * totalBytes) / bytes : thisPass;
@@ -67,7 +71,9 @@ export function timeLeft(state: ProgressState): number | undefined {
 
 export function progressText(state: ProgressState): string {
   const count = state.lines.toLocaleString('en');
-  const done = state.pass === 0 ? `reading: ${count} lines` : `writing: ${count}${state.totalLines === undefined ? '' : ` of ${state.totalLines.toLocaleString('en')}`} lines`;
+  const { copy } = state;
+  const copying = copy ? `, copying the second part into place: ${Math.floor((100 * copy.done) / Math.max(1, copy.of))}%` : '';
+  const done = state.pass === 0 ? `reading: ${count} lines` : `writing: ${count}${state.totalLines === undefined ? '' : ` of ${state.totalLines.toLocaleString('en')}`} lines${copying}`;
   const left = timeLeft(state);
   return `famwise: ${done}${left === undefined ? '' : `, about ${seconds(left)} left`}`;
 }
@@ -95,7 +101,8 @@ export function progressLine(write: (text: string) => void, now: () => number = 
     lastDrawn = time;
     drawn = true;
     onScreen = true;
-    write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted })}`);
+    const copying = copy && { done: copy.done, of: copy.of, elapsed: time - copy.started };
+    write(`${ERASE}${progressText({ pass, lines, totalLines, bytes, totalBytes, elapsed: time - passStarted, copy: copying })}`);
   };
 
   /**
@@ -105,6 +112,8 @@ export function progressLine(write: (text: string) => void, now: () => number = 
    * is counted here; each of a pass's two parts in a pair of its own (tally).
    */
   const inOrderCounts = new Float64Array(2);
+  /** The copy of a second part written apart (PassTally.copied), while one is under way. */
+  let copy: { done: number; of: number; started: number } | undefined;
   const startPass = (): void => {
     // The first pass's scan has ended by now (it ends after the last chunk it read): its count is the table's.
     if (pass > 0 && totalLines === undefined) totalLines = inOrderCounts[1];
@@ -154,10 +163,15 @@ export function progressLine(write: (text: string) => void, now: () => number = 
       timer.unref();
       return parts;
     },
+    copied(done, of) {
+      copy ??= { done: 0, of, started: now() };
+      copy.done = done;
+    },
     end() {
       clearInterval(timer);
       countParts();
       parts = undefined;
+      copy = undefined;
       if (pass === 0) totalLines = lines;
       endPass();
       erase();

@@ -34,7 +34,7 @@ const COPY_SIZE = 4 << 20;
  * took 2-4 times as long: 250-540 ms against 140 ms for 385 MB, the second
  * half of a table of 10M rows.)
  */
-async function copyPart(fd: number, size: number, sink: ByteSink): Promise<void> {
+async function copyPart(fd: number, size: number, sink: ByteSink, copied?: (done: number, of: number) => void): Promise<void> {
   const buffers = [Buffer.allocUnsafe(COPY_SIZE), Buffer.allocUnsafe(COPY_SIZE)];
   const readChunk = (position: number, turn: number): Promise<Buffer> => readAt(fd, Math.min(COPY_SIZE, size - position), position, buffers[turn] as Buffer);
   let reading = readChunk(0, 0);
@@ -49,6 +49,7 @@ async function copyPart(fd: number, size: number, sink: ByteSink): Promise<void>
     writing = sink.writeReusable(chunk);
     // Its failure is met at the next await of it; meanwhile it is not an unhandled rejection.
     writing.catch(() => {});
+    copied?.(position, size);
   }
   await writing;
 }
@@ -103,8 +104,9 @@ export async function writeTableInParts(
     const fd = (source.descriptor as () => number)();
     const partPlan = planFrom(plan, split.row);
     /** Writes the part from the split on in this thread, after the first. */
+    // Counted where the worker's part would have been (the worker is done with its pair by then).
     const writeSecondHere = (): Promise<number> =>
-      writeTable(rangeSource(source.name, fd, split.offset, contentEnd(source)), shape, plannedColumns(partPlan), format, sink, rows - split.row, { firstLine: split.line });
+      writeTable(countedInto(rangeSource(source.name, fd, split.offset, contentEnd(source)), counts?.[1]), shape, plannedColumns(partPlan), format, sink, rows - split.row, { firstLine: split.line });
     const firstPart = countedInto(rangeSource(source.name, fd, 0, split.offset), counts?.[0]);
     const writeFirstHere = (): Promise<number> => writeTable(firstPart, shape, plannedColumns(plan), format, sink, split.row, {});
     const job = (outFd: number, at: number): WritePartJob => ({
@@ -198,7 +200,7 @@ export async function writeTableInParts(
       }
       // The second part is not copied after a first part that came out short.
       checkRowCount(source, first + later, rows);
-      await copyPart(temporary.fd, written, sink);
+      await copyPart(temporary.fd, written, sink, (done, of) => source.tally?.copied(done, of));
     } finally {
       second.stop();
       if (workerDone) await temporary.close();

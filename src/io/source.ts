@@ -106,6 +106,11 @@ export interface PassTally {
    * the table's.
    */
   begin(firstEnd: number): readonly [Float64Array, Float64Array];
+  /**
+   * The second part, written apart, is being copied after the first
+   * (io/parallel-write.ts): `done` of its `of` bytes so far.
+   */
+  copied(done: number, of: number): void;
   /** The pass has ended, however it ended. */
   end(): void;
 }
