@@ -198,18 +198,26 @@ describe('lines as the scans count them', () => {
   });
 });
 
+/**
+ * A progress line watching a table of 1000 bytes read by position, under fake timers: what it
+ * wrote, its tally, and a clock that advances the timers with it.
+ */
+function watchedByPosition(): { written: string[]; tally: PassTally; tick: (ms: number) => void } {
+  const clock = { now: 0 };
+  const written: string[] = [];
+  const source = progressLine((text) => written.push(text), () => clock.now).watch({ name: 't.csv', extension: 'csv', size: 1000, descriptor: () => 3, chunks: async function* () {} });
+  const tick = (ms: number): void => {
+    clock.now += ms;
+    vi.advanceTimersByTime(ms);
+  };
+  return { written, tally: source.tally as PassTally, tick };
+}
+
 describe('with a table read by position', () => {
   it('shows the copy of a second part written apart once every line is written, rather than standing at the end', () => {
     vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
     try {
-      const clock = { now: 0 };
-      const written: string[] = [];
-      const source = progressLine((text) => written.push(text), () => clock.now).watch({ name: 't.csv', extension: 'csv', size: 1000, descriptor: () => 3, chunks: async function* () {} });
-      const tally = source.tally as PassTally;
-      const tick = (ms: number): void => {
-        clock.now += ms;
-        vi.advanceTimersByTime(ms);
-      };
+      const { written, tally, tick } = watchedByPosition();
       const [readFirst, readSecond] = tally.begin(500);
       readFirst.set([500, 50]);
       readSecond.set([500, 50]);
@@ -243,14 +251,7 @@ describe('with a table read by position', () => {
   it('draws a pass in two parts from the sums of both parts\' counts, on a timer, and erases it when the pass ends', () => {
     vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
     try {
-      const clock = { now: 0 };
-      const written: string[] = [];
-      const source = progressLine((text) => written.push(text), () => clock.now).watch({ name: 't.csv', extension: 'csv', size: 1000, descriptor: () => 3, chunks: async function* () {} });
-      const tally = source.tally as PassTally;
-      const tick = (ms: number): void => {
-        clock.now += ms;
-        vi.advanceTimersByTime(ms);
-      };
+      const { written, tally, tick } = watchedByPosition();
       // The first pass: the two parts' [bytes, lines], in shared memory (another thread writes the second).
       const [first, second] = tally.begin(500);
       expect(first.buffer).toBeInstanceOf(SharedArrayBuffer);
