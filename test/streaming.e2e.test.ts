@@ -4,16 +4,15 @@
 // in procedures.reference.test.ts). The table mixes quoted fields, CRLF and
 // missing values into plain lines, so that the scanner's fast and general
 // paths both carry it.
-import { spawn, spawnSync } from 'node:child_process';
-import { closeSync, constants, openSync, readFileSync, readdirSync, writeFileSync, writeSync } from 'node:fs';
+import { spawn } from 'node:child_process';
+import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
 import { adjustBenjaminiHochberg, adjustHolm } from '../src/index.js';
-import { ChunkPool } from '../src/io/source.js';
-import { spilledSource, standardInputChunks } from '../src/io/spill.js';
+import { spilledSource } from '../src/io/spill.js';
 import { CLI, famwise } from './helpers/cli.js';
 import { seededRandom } from './helpers/random.js';
 import { removeTemporaryFolders, temporaryFolder } from './helpers/temporary-folder.js';
@@ -176,57 +175,6 @@ describe('standard input past the in-memory limit', () => {
     } finally {
       if (before === undefined) delete process.env.TMPDIR;
       else process.env.TMPDIR = before;
-    }
-  });
-
-  it('reads a pipe through its descriptor into a few buffers, each given back once written to the file', async () => {
-    const fifo = join(temporaryFolder('famwise-fifo-'), 'in.fifo');
-    expect(spawnSync('mkfifo', [fifo]).status).toBe(0);
-    const big = Buffer.concat([table, table, table]);
-    const tableFile = join(temporaryFolder('famwise-fifo-'), 'table.csv');
-    writeFileSync(tableFile, big);
-    // A writer in another process, in pieces as a pipe gives them.
-    const writer = spawn('sh', ['-c', `cat "${tableFile}" > "${fifo}"`]);
-    const written = new Promise((resolve) => writer.once('exit', resolve));
-    const fd = openSync(fifo, 'r');
-    try {
-      const pool = new ChunkPool();
-      const buffers = new Set<ArrayBufferLike>();
-      const chunks = standardInputChunks(pool, fd);
-      const seen = (async function* () {
-        for await (const chunk of chunks) {
-          buffers.add(chunk.buffer);
-          yield chunk;
-        }
-      })();
-      const source = await spilledSource(seen, '<stdin>', 1 << 16, undefined, pool);
-      expect(source.size).toBe(big.length);
-      expect(big.length).toBeGreaterThan(3 * pool.size);
-      const read: Buffer[] = [];
-      for await (const chunk of source.chunks()) read.push(chunk);
-      expect(Buffer.concat(read).equals(big)).toBe(true);
-      // Each 4 MB block went back once written, and was read into again.
-      expect(buffers.size).toBeLessThanOrEqual(2);
-    } finally {
-      closeSync(fd);
-      await written;
-    }
-  });
-
-  it('reads the rest as a stream when the descriptor does not wait for input (EAGAIN)', async () => {
-    const fifo = join(temporaryFolder('famwise-fifo-'), 'in.fifo');
-    expect(spawnSync('mkfifo', [fifo]).status).toBe(0);
-    const fd = openSync(fifo, constants.O_RDONLY | constants.O_NONBLOCK);
-    const writerFd = openSync(fifo, 'w');
-    try {
-      writeSync(writerFd, 'p\n0.5\n');
-      const read: Buffer[] = [];
-      // The writer stays open with nothing more in the pipe: the next read fails with EAGAIN.
-      for await (const chunk of standardInputChunks(new ChunkPool(), fd, () => Readable.from([Buffer.from('0.25\n'), Buffer.from('0.01\n')]))) read.push(Buffer.from(chunk));
-      expect(Buffer.concat(read).toString()).toBe('p\n0.5\n0.25\n0.01\n');
-    } finally {
-      closeSync(writerFd);
-      closeSync(fd);
     }
   });
 

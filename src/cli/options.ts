@@ -4,7 +4,6 @@
 
 import { accessSync, constants, createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
 import { basename, dirname, resolve } from 'node:path';
-import { isatty } from 'node:tty';
 import { Command } from 'commander';
 import * as z from 'zod';
 import { en } from 'zod/locales';
@@ -17,8 +16,8 @@ import { routeOutput } from '../io/atomic-file.js';
 import { decompressedIfGzip, isGzip } from '../io/gzip.js';
 import { startWorker } from '../io/parts.js';
 import { smallestInParts } from '../io/worker-thread.js';
-import { ChunkPool, type InputSource, fileSource, stdinFileSource } from '../io/source.js';
-import { spilledSource, standardInputChunks } from '../io/spill.js';
+import { type InputSource, fileSource, stdinFileSource } from '../io/source.js';
+import { spilledSource } from '../io/spill.js';
 import { type StatisticKind, type Tail, STATISTIC_KINDS, TAILS_ALLOWED, DEGREES_NEEDED, defaultTail } from '../distributions/p-from-statistic.js';
 import type { DegreesSource, ValueReading } from '../io/statistic-text.js';
 import type { ReadOptions } from '../io/read-table.js';
@@ -205,14 +204,10 @@ export async function openInput(file: string | undefined, readInParts = false): 
     if (readInParts && !isGzip(head) && size >= smallestInParts()) startWorker();
   };
   if (file === undefined || file === '-') {
-    // isatty, not process.stdin.isTTY: making process.stdin would set the descriptor non-blocking.
-    if (isatty(0)) {
+    if (process.stdin.isTTY) {
       process.stderr.write('famwise: reading from the terminal: paste p-values one per line (or a table), then press Ctrl-D\n');
-      return decompressedIfGzip(await spilledSource(process.stdin, '<stdin>', undefined, onFile));
     }
-    const pool = new ChunkPool();
-    const chunks = process.platform === 'win32' ? process.stdin : standardInputChunks(pool);
-    return decompressedIfGzip(stdinFileSource() ?? (await spilledSource(chunks, '<stdin>', undefined, onFile, pool)));
+    return decompressedIfGzip(stdinFileSource() ?? (await spilledSource(process.stdin, '<stdin>', undefined, onFile)));
   }
   if (!existsSync(file)) throw new UsageError(`${file}: no such file`);
   const stat = statSync(file);

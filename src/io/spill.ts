@@ -8,12 +8,12 @@
 // allowed, it is removed on exit instead. Cost: one extra write and read of
 // the input, both sequential.
 
-import { read, rmSync, unlinkSync } from 'node:fs';
+import { rmSync, unlinkSync } from 'node:fs';
 import { type FileHandle, open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
-import { type ChunkPool, type InputSource, rangeSource } from './source.js';
+import { type InputSource, rangeSource } from './source.js';
 import { temporaryNamePart } from './temporary-name.js';
 
 /**
@@ -70,62 +70,13 @@ async function writeAll(file: FileHandle, chunks: readonly Buffer[]): Promise<vo
   }
 }
 
-/** Reads up to `length` bytes from a descriptor's current position into buffer at `offset`: how many (0 at the end). */
-function readInto(fd: number, buffer: Buffer, offset: number, length: number): Promise<number> {
-  return new Promise((resolve, reject) => {
-    read(fd, buffer, offset, length, null, (error, bytesRead) => (error ? reject(error) : resolve(bytesRead)));
-  });
-}
-
-/**
- * Standard input that is not a terminal or a regular file (a pipe, a
- * socket), read through its descriptor into the pool's buffers, each filled
- * before it is handed on (spilledSource gives it back once it is written),
- * rather than as a stream, which reads into new memory every 64 KB: memory
- * touched for the first time costs a page fault per 4 KB (source.ts,
- * ChunkPool). Where the descriptor does not wait for input (EAGAIN: made
- * non-blocking by whoever shares it), the rest is read as a stream.
- */
-export async function* standardInputChunks(pool: ChunkPool, fd = 0, rest: () => AsyncIterable<Buffer> = () => process.stdin): AsyncGenerator<Buffer> {
-  for (;;) {
-    const block = pool.take();
-    let filled = 0;
-    try {
-      for (let got = -1; got !== 0 && filled < block.length; filled += got) got = await readInto(fd, block, filled, block.length - filled);
-    } catch (error) {
-      if ((error as NodeJS.ErrnoException).code !== 'EAGAIN') {
-        pool.give(block);
-        throw error;
-      }
-      if (filled > 0) yield block.subarray(0, filled);
-      else pool.give(block);
-      yield* rest();
-      return;
-    }
-    if (filled === 0) {
-      pool.give(block);
-      return;
-    }
-    yield block.subarray(0, filled);
-    // A block not filled: the input ended.
-    if (filled < block.length) return;
-  }
-}
-
 /**
  * Reads a stream to its end, into memory or (past `inMemory` bytes) a
  * temporary file, and returns it as a source. onFile is told when the input
  * turns out to go to a file, with its first bytes and its size so far, while
- * the rest is read. Chunks from `pool` (standardInputChunks) go back to it
- * once written to the file.
+ * the rest is read.
  */
-export async function spilledSource(
-  stream: Readable | AsyncIterable<Buffer>,
-  name: string,
-  inMemory = IN_MEMORY,
-  onFile?: (head: Buffer, size: number) => void,
-  pool?: ChunkPool,
-): Promise<InputSource> {
+export async function spilledSource(stream: Readable, name: string, inMemory = IN_MEMORY, onFile?: (head: Buffer, size: number) => void): Promise<InputSource> {
   const kept: Buffer[] = [];
   let keptSize = 0;
   let size = 0;
@@ -153,9 +104,7 @@ export async function spilledSource(
       }
       onFile?.(kept[0] as Buffer, size);
     }
-    const written = kept.splice(0);
-    await writeAll(file, written);
-    for (const chunk of written) pool?.give(chunk);
+    await writeAll(file, kept.splice(0));
     keptSize = 0;
   }
   if (!file) {
