@@ -42,13 +42,6 @@ export interface ScanHandlers {
   readonly pause?: { readonly at: number; resume(line: number): Promise<boolean> };
 }
 
-/**
- * The first bytes of a source, at least `want` of them unless it is shorter
- * (exactly `want` from a source read by position; from a stream, whole chunks).
- */
-export function peek(source: InputSource, want: number): Promise<Buffer> {
-  return readHead(source, want);
-}
 
 /**
  * What look() makes of the first bytes of a source (as peek gives them),
@@ -58,14 +51,18 @@ export function peek(source: InputSource, want: number): Promise<Buffer> {
 export async function lookAtHead<T>(source: InputSource, want: number, look: (head: Buffer) => T): Promise<T> {
   const buffer = source.descriptor !== undefined && want <= readBuffers.size ? readBuffers.take() : undefined;
   try {
-    return look(await readHead(source, want, buffer));
+    return look(await peek(source, want, buffer));
   } finally {
     if (buffer) readBuffers.give(buffer);
   }
 }
 
-/** peek's bytes; read by position into `into` when given (it has room for `want`). */
-async function readHead(source: InputSource, want: number, into?: Buffer): Promise<Buffer> {
+/**
+ * The first bytes of a source, at least `want` of them unless it is shorter
+ * (exactly `want` from a source read by position, into `into` when given,
+ * which has room for them; from a stream, whole chunks).
+ */
+export async function peek(source: InputSource, want: number, into?: Buffer): Promise<Buffer> {
   // Read by position: just those bytes. (A stream would read a whole 4 MB chunk, and emit an
   // error as it is given up: some 10-20 ms at start-up, twice.)
   if (source.descriptor !== undefined) {

@@ -14,7 +14,7 @@ import { childProcess } from './lazy-builtin.js';
 const READ_SIZE = 1 << 20;
 /** Bytes of a pool's buffers: a chunk, or the first look at a table (read-table.ts, SNIFF_BYTES). */
 const POOL_BUFFER_SIZE = 4 << 20;
-/** Bytes a file stream reads at a time (into a new buffer each time, so not few). */
+/** Bytes a file stream reads at a time, each time into a new buffer. */
 const STREAM_READ_SIZE = 4 << 20;
 
 export interface InputSource {
